@@ -1,0 +1,155 @@
+//! The worst-case engine: a [`Stage`] in, a [`StageAnalysis`] out (stage-model version 1).
+//!
+//! Order of work: size the LED resistor (if asked), fix the load corner, size the base resistor
+//! and pull-down (if asked), evaluate every worst-case figure, run the checks, list assumptions
+//! and cautions.
+
+pub mod checks;
+pub mod corners;
+pub mod finding;
+pub mod resistors;
+pub mod sizing;
+pub mod temperature;
+
+pub use corners::{LedCurrents, LoadCorner, Resistors, WorstCase};
+pub use finding::{CheckId, Finding, Status};
+pub use resistors::{RatingSource, ResistorUse, Role, SizedFlags};
+pub use sizing::ClampProposal;
+
+use crate::load::Load;
+use crate::parts::PartSource;
+use crate::quantity::{format_engineering as fe, Base};
+use crate::stage::{PullDown, Stage, DEFAULT_RESISTOR_RATING_W};
+use checks::{run_checks, CheckInput};
+use sizing::{
+    gain_needed_within_pin_limit, propose_clamp, pull_down_for, size_base_resistor,
+    size_led_resistor, LedSizing,
+};
+
+/// Supply above which the touch-safe extra-low-voltage class ends, V DC
+/// [memory: IEC 62368-1 ES1; IEC 61140 sets the ELV band].
+pub const ELV_LIMIT_V: f64 = 60.0;
+
+/// Everything the engine found about one stage.
+#[derive(Clone, Debug)]
+pub struct StageAnalysis {
+    /// Worst-case figures with the resistors in use.
+    pub worst: WorstCase,
+    /// The resistors, their powers and ratings.
+    pub resistors: Vec<ResistorUse>,
+    /// Which resistors were sized.
+    pub sized: SizedFlags,
+    /// What the clamp of an inductive load needs.
+    pub clamp: Option<ClampProposal>,
+    /// The minimum gain at 25 C a part needs to reach the overdrive within the pin limit.
+    pub gain_needed_within_pin_limit: Option<f64>,
+    /// One finding per check.
+    pub findings: Vec<Finding>,
+    /// The worst finding.
+    pub verdict: Status,
+    /// Every default the stage took.
+    pub assumptions: Vec<String>,
+    /// Cautions that apply.
+    pub cautions: Vec<String>,
+}
+
+/// Size what the stage leaves open and audit the result.
+pub fn analyse(stage: &Stage) -> StageAnalysis {
+    let mut sized = SizedFlags::default();
+    let mut led_no_headroom = None;
+    let rl = match &stage.load {
+        Load::Led(led) => match led.resistor {
+            Some(r) => Some(r),
+            None => match size_led_resistor(stage, led) {
+                LedSizing::Sized(r) => {
+                    sized.led = true;
+                    Some(r)
+                }
+                LedSizing::NoHeadroom(ideal) => {
+                    led_no_headroom = Some(ideal);
+                    None
+                }
+            },
+        },
+        _ => None,
+    };
+    let corner = LoadCorner::of(stage, rl);
+    let (rb, rbe, overdrive_reached) = match stage.base_resistor {
+        Some(rb) => (rb, pull_down_for(stage, rb), true),
+        None => {
+            let s = size_base_resistor(stage, &corner);
+            sized.base = true;
+            (s.rb, s.rbe, s.reached)
+        }
+    };
+    sized.pull_down = matches!(stage.pull_down, PullDown::Sized) && rbe.is_some();
+    let worst = WorstCase::with_corner(stage, Resistors { rb, rbe, rl }, corner);
+    let resistors = resistors::resistor_uses(stage, &worst, sized);
+    let gain_needed = gain_needed_within_pin_limit(stage, &corner);
+    let findings = run_checks(&CheckInput {
+        stage,
+        wc: &worst,
+        resistors: &resistors,
+        overdrive_reached,
+        led_no_headroom,
+        gain_needed_within_pin_limit: gain_needed,
+    });
+    let verdict = findings
+        .iter()
+        .map(|f| f.status)
+        .max()
+        .unwrap_or(Status::Pass);
+    let mut assumptions = stage.assumptions.clone();
+    if stage.resistor_rating.is_none()
+        && resistors
+            .iter()
+            .any(|r| r.rating_source == RatingSource::Assumed)
+    {
+        assumptions.push(format!(
+            "fitted resistors rated {} assumed [practice]",
+            fe(DEFAULT_RESISTOR_RATING_W, "W")
+        ));
+    }
+    StageAnalysis {
+        clamp: propose_clamp(stage, &corner),
+        cautions: cautions(stage, &worst),
+        worst,
+        resistors,
+        sized,
+        gain_needed_within_pin_limit: gain_needed,
+        findings,
+        verdict,
+        assumptions,
+    }
+}
+
+/// The cautions of stage-model 7 that apply to this stage.
+fn cautions(stage: &Stage, wc: &WorstCase) -> Vec<String> {
+    let mut out = Vec::new();
+    let vcc_max = wc.load.vcc_max.base();
+    if vcc_max > ELV_LIMIT_V {
+        out.push(format!(
+            "the highest supply {} is above 60 V DC, beyond the touch-safe extra-low-voltage class (60 V DC is the common limit, e.g. IEC 62368-1 ES1; IEC 61140 sets the ELV band): defer to local codes and licensed practice",
+            fe(vcc_max, "V")
+        ));
+    }
+    if stage.load.is_inductive() {
+        out.push("only the coil side is checked: contacts that switch mains need rated parts, creepage and clearance, and licensed practice under local codes".to_string());
+    }
+    if let PartSource::Builtin(_) = stage.part.source {
+        out.push(format!(
+            "part {} is shipped with pinlow ({}): verify every figure against the supplier's datasheet before building",
+            stage.part.id, stage.part.provenance
+        ));
+    }
+    out
+}
+
+/// Analyse every stage and gather the report.
+pub fn audit(board: Option<String>, stages: &[Stage]) -> crate::report::Report {
+    let reports = stages
+        .iter()
+        .map(|s| crate::report::StageReport::from_analysis(s, &analyse(s)))
+        .collect();
+    crate::report::Report::new(board, reports)
+}

@@ -1,0 +1,311 @@
+//! The command line: clap derive structs and value enums, no logic.
+
+use std::path::PathBuf;
+
+use clap::{Args, Parser, Subcommand, ValueEnum};
+
+use crate::board::Grade;
+use crate::eseries::Series;
+use crate::quantity::{parse_temperature_range, parse_value, ParseValueError, ValueKind};
+
+const ABOUT: &str = "Sizes and audits NPN transistor switch stages: a logic pin driving an NPN that pins a relay coil, LEDs, a strip segment or another load to ground, checked over worst-case corners.";
+
+const AFTER_HELP: &str = "Examples:
+  pinlow size --supply 12V --logic-high 3V3 --part demo-npn-40v --load relay --coil 400 --clamp diode
+  pinlow audit examples/greenhouse.json
+  pinlow audit examples/greenhouse.json --format markdown --output review.md
+  pinlow parts list
+
+Exit codes: 0 every stage passes or is marginal; 1 a stage fails (with --strict, marginal too);
+2 the input could not be used.
+pinlow checks the driver stage only: follow local codes and licensed practice.";
+
+/// The whole command line.
+#[derive(Debug, Parser)]
+#[command(name = "pinlow", version, about = ABOUT, after_help = AFTER_HELP)]
+pub struct Cli {
+    /// What to do.
+    #[command(subcommand)]
+    pub command: Command,
+    /// Add part files: a folder of *.json or one file; repeatable; later ones override by id.
+    /// The PINLOW_PARTS variable (a path list) is read first.
+    #[arg(long = "parts", value_name = "DIR", global = true)]
+    pub parts: Vec<PathBuf>,
+    /// Output format.
+    #[arg(long, value_enum, default_value_t = FormatArg::Table, global = true)]
+    pub format: FormatArg,
+    /// Exit 1 on a marginal stage too.
+    #[arg(long, global = true)]
+    pub strict: bool,
+    /// Colour in tables: auto (a terminal, NO_COLOR unset), always or never.
+    #[arg(long, value_enum, default_value_t = ColorArg::Auto, global = true)]
+    pub color: ColorArg,
+    /// Write the report to FILE instead of standard output.
+    #[arg(long, short = 'o', value_name = "FILE", global = true)]
+    pub output: Option<PathBuf>,
+}
+
+/// The commands.
+#[derive(Debug, Subcommand)]
+pub enum Command {
+    /// Propose RB, RBE, the LED resistor, power ratings and clamp ratings for one stage, then check it.
+    #[command(after_help = "Examples:
+  pinlow size --supply 5V --logic-high 3V3 --part 2N3904 --load current --current 150mA
+  pinlow size --supply 12V --logic-high 3V3 --part demo-npn-40v --load relay --coil 400 --clamp diode --grade industrial
+  pinlow size --supply 12V --logic-high 5V --part demo-npn-1a --load led --led-count 3 --led-vf 3.0 --current 20mA
+  pinlow size --supply 12V --logic-high 3V3 --part demo-npn-1a --load strip --strip-voltage 12V --strip-current-per-metre 0.5A --strip-length 1m")]
+    Size(StageArgs),
+    /// Audit every stage of a board file, or one stage given by flags with --base-resistor.
+    #[command(after_help = "Examples:
+  pinlow audit examples/greenhouse.json
+  pinlow audit examples/greenhouse.json --format json --strict
+  pinlow audit --supply 12V --logic-high 3V3 --part demo-npn-40v --load relay --coil 400 --clamp diode --base-resistor 1k --pull-down 10k")]
+    Audit {
+        /// A board file (files.md). Without it, the stage flags describe one stage.
+        #[arg(value_name = "FILE")]
+        board: Option<PathBuf>,
+        /// The stage, when no board file is given.
+        #[command(flatten)]
+        stage: StageArgs,
+    },
+    /// List, show or check part files.
+    #[command(subcommand)]
+    Parts(PartsCommand),
+}
+
+/// `pinlow parts ...`
+#[derive(Debug, Subcommand)]
+pub enum PartsCommand {
+    /// Table of every known part.
+    #[command(after_help = "Example:\n  pinlow parts list --parts ./my-parts")]
+    List,
+    /// Every figure of one part.
+    #[command(after_help = "Example:\n  pinlow parts show demo-npn-40v")]
+    Show {
+        /// The part id.
+        #[arg(value_name = "ID")]
+        id: String,
+    },
+    /// Validate part files; names the file and JSON path of each problem.
+    #[command(after_help = "Example:\n  pinlow parts check my-parts/*.json")]
+    Check {
+        /// Part files to check.
+        #[arg(value_name = "FILE", required = true)]
+        files: Vec<PathBuf>,
+    },
+}
+
+/// Report formats.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
+pub enum FormatArg {
+    /// Text tables.
+    Table,
+    /// JSON (files.md).
+    Json,
+    /// Markdown for a design review.
+    Markdown,
+}
+
+/// Colour choice.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
+pub enum ColorArg {
+    /// On a terminal, unless NO_COLOR is set.
+    Auto,
+    /// Always.
+    Always,
+    /// Never.
+    Never,
+}
+
+/// Load kinds on the command line.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
+pub enum LoadArg {
+    /// A fixed current (--current).
+    Current,
+    /// A relay coil (--coil, ...).
+    Relay,
+    /// LEDs in series (--led-count, --led-vf, --current, ...).
+    Led,
+    /// A constant-voltage LED strip segment (--strip-...).
+    Strip,
+}
+
+/// Clamp kinds on the command line.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
+pub enum ClampArg {
+    /// No clamp.
+    None,
+    /// A diode across the coil.
+    Diode,
+    /// A diode plus a Zener (--zener).
+    Zener,
+}
+
+/// Grades on the command line.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
+pub enum GradeArg {
+    /// 0 .. 70 °C.
+    Commercial,
+    /// -40 .. 85 °C.
+    Industrial,
+    /// -40 .. 125 °C.
+    Automotive,
+}
+
+impl From<GradeArg> for Grade {
+    fn from(g: GradeArg) -> Grade {
+        match g {
+            GradeArg::Commercial => Grade::Commercial,
+            GradeArg::Industrial => Grade::Industrial,
+            GradeArg::Automotive => Grade::Automotive,
+        }
+    }
+}
+
+macro_rules! value_parser_fn {
+    ($name:ident, $kind:expr) => {
+        fn $name(s: &str) -> Result<f64, ParseValueError> {
+            parse_value(s, $kind)
+        }
+    };
+}
+value_parser_fn!(volts, ValueKind::Voltage);
+value_parser_fn!(amps, ValueKind::Current);
+value_parser_fn!(ohms, ValueKind::Resistance);
+value_parser_fn!(watts, ValueKind::Power);
+value_parser_fn!(henries, ValueKind::Inductance);
+value_parser_fn!(metres, ValueKind::Length);
+value_parser_fn!(fraction, ValueKind::Fraction);
+value_parser_fn!(number, ValueKind::Plain);
+
+fn ambient(s: &str) -> Result<(f64, f64), ParseValueError> {
+    parse_temperature_range(s)
+}
+
+fn series(s: &str) -> Result<Series, String> {
+    s.parse::<Series>().map_err(|e| e.to_string())
+}
+
+/// The flags that describe one stage.
+#[derive(Debug, Clone, Default, Args)]
+pub struct StageArgs {
+    /// A name for the stage in the report.
+    #[arg(long, value_name = "TEXT", help_heading = "Stage")]
+    pub name: Option<String>,
+    /// Part id from the parts library (see `pinlow parts list`).
+    #[arg(long, value_name = "ID", help_heading = "Stage")]
+    pub part: Option<String>,
+    /// Nominal supply of the load, e.g. 12V.
+    #[arg(long, value_name = "VOLTS", value_parser = volts, allow_hyphen_values = true, help_heading = "Stage")]
+    pub supply: Option<f64>,
+    /// Supply tolerance, e.g. 5% or 0.05 [default: 5 %].
+    #[arg(long, value_name = "FRACTION", value_parser = fraction, allow_hyphen_values = true, help_heading = "Stage")]
+    pub supply_tolerance: Option<f64>,
+    /// The pin's nominal logic high (its supply), e.g. 3V3.
+    #[arg(long, value_name = "VOLTS", value_parser = volts, allow_hyphen_values = true, help_heading = "Logic pin")]
+    pub logic_high: Option<f64>,
+    /// Guaranteed logic high at the pin's rated current [default: logic high - 0.4 V].
+    #[arg(long, value_name = "VOLTS", value_parser = volts, allow_hyphen_values = true, help_heading = "Logic pin")]
+    pub logic_high_min: Option<f64>,
+    /// Most current the pin may source [default: 4 mA].
+    #[arg(long, value_name = "AMPS", value_parser = amps, allow_hyphen_values = true, help_heading = "Logic pin")]
+    pub pin_limit: Option<f64>,
+    /// Ambient range, e.g. -40..85 [default: 0..70].
+    #[arg(long, value_name = "RANGE", value_parser = ambient, allow_hyphen_values = true, conflicts_with = "grade", help_heading = "Stage")]
+    pub ambient: Option<(f64, f64)>,
+    /// Temperature grade instead of --ambient.
+    #[arg(long, value_enum, help_heading = "Stage")]
+    pub grade: Option<GradeArg>,
+    /// The load kind.
+    #[arg(long, value_enum, help_heading = "Load")]
+    pub load: Option<LoadArg>,
+    /// Load current (current load) or LED target current (led load), e.g. 150mA.
+    #[arg(long, value_name = "AMPS", value_parser = amps, allow_hyphen_values = true, help_heading = "Load")]
+    pub current: Option<f64>,
+    /// Relay coil resistance at 20 °C, e.g. 400 or 400R.
+    #[arg(long, value_name = "OHMS", value_parser = ohms, allow_hyphen_values = true, help_heading = "Load")]
+    pub coil: Option<f64>,
+    /// Coil resistance tolerance [default: 10 %].
+    #[arg(long, value_name = "FRACTION", value_parser = fraction, allow_hyphen_values = true, help_heading = "Load")]
+    pub coil_tolerance: Option<f64>,
+    /// Rated coil voltage [default: the supply].
+    #[arg(long, value_name = "VOLTS", value_parser = volts, allow_hyphen_values = true, help_heading = "Load")]
+    pub coil_rated: Option<f64>,
+    /// Must-operate voltage as a fraction of rated [default: 0.75].
+    #[arg(long, value_name = "FRACTION", value_parser = fraction, allow_hyphen_values = true, help_heading = "Load")]
+    pub must_operate: Option<f64>,
+    /// Coil inductance, e.g. 200mH.
+    #[arg(long, value_name = "HENRIES", value_parser = henries, allow_hyphen_values = true, help_heading = "Load")]
+    pub inductance: Option<f64>,
+    /// LEDs in series.
+    #[arg(long, value_name = "N", value_parser = number, allow_hyphen_values = true, help_heading = "Load")]
+    pub led_count: Option<f64>,
+    /// Nominal forward voltage of one LED.
+    #[arg(long, value_name = "VOLTS", value_parser = volts, allow_hyphen_values = true, help_heading = "Load")]
+    pub led_vf: Option<f64>,
+    /// Lowest forward voltage of one LED [default: nominal - 0.2 V].
+    #[arg(long, value_name = "VOLTS", value_parser = volts, allow_hyphen_values = true, help_heading = "Load")]
+    pub led_vf_min: Option<f64>,
+    /// Highest forward voltage of one LED [default: nominal + 0.2 V].
+    #[arg(long, value_name = "VOLTS", value_parser = volts, allow_hyphen_values = true, help_heading = "Load")]
+    pub led_vf_max: Option<f64>,
+    /// Absolute maximum LED current.
+    #[arg(long, value_name = "AMPS", value_parser = amps, allow_hyphen_values = true, help_heading = "Load")]
+    pub led_max_current: Option<f64>,
+    /// Given LED series resistor (sized when absent).
+    #[arg(long, value_name = "OHMS", value_parser = ohms, allow_hyphen_values = true, help_heading = "Load")]
+    pub led_resistor: Option<f64>,
+    /// Rated strip voltage.
+    #[arg(long, value_name = "VOLTS", value_parser = volts, allow_hyphen_values = true, help_heading = "Load")]
+    pub strip_voltage: Option<f64>,
+    /// Strip current per metre at its rated voltage.
+    #[arg(long, value_name = "AMPS", value_parser = amps, allow_hyphen_values = true, help_heading = "Load")]
+    pub strip_current_per_metre: Option<f64>,
+    /// Strip segment length, e.g. 1.5m.
+    #[arg(long, value_name = "METRES", value_parser = metres, allow_hyphen_values = true, help_heading = "Load")]
+    pub strip_length: Option<f64>,
+    /// Clamp across an inductive load.
+    #[arg(long, value_enum, help_heading = "Clamp")]
+    pub clamp: Option<ClampArg>,
+    /// Clamp diode forward drop [default: 1 V].
+    #[arg(long, value_name = "VOLTS", value_parser = volts, allow_hyphen_values = true, help_heading = "Clamp")]
+    pub clamp_forward: Option<f64>,
+    /// Zener voltage of a zener clamp.
+    #[arg(long, value_name = "VOLTS", value_parser = volts, allow_hyphen_values = true, help_heading = "Clamp")]
+    pub zener: Option<f64>,
+    /// Clamp diode reverse rating.
+    #[arg(long, value_name = "VOLTS", value_parser = volts, allow_hyphen_values = true, help_heading = "Clamp")]
+    pub clamp_reverse: Option<f64>,
+    /// Clamp diode current rating.
+    #[arg(long, value_name = "AMPS", value_parser = amps, allow_hyphen_values = true, help_heading = "Clamp")]
+    pub clamp_current: Option<f64>,
+    /// Given base resistor (audit); `size` always sizes it.
+    #[arg(long, value_name = "OHMS", value_parser = ohms, allow_hyphen_values = true, help_heading = "Resistors")]
+    pub base_resistor: Option<f64>,
+    /// Given pull-down from base to emitter.
+    #[arg(long, value_name = "OHMS", value_parser = ohms, conflicts_with = "no_pull_down", help_heading = "Resistors")]
+    pub pull_down: Option<f64>,
+    /// No pull-down (when sizing, one of 10 x RB is proposed unless this is given).
+    #[arg(long, help_heading = "Resistors")]
+    pub no_pull_down: bool,
+    /// Resistor tolerance [default: 5 %].
+    #[arg(long, value_name = "FRACTION", value_parser = fraction, allow_hyphen_values = true, help_heading = "Resistors")]
+    pub resistor_tolerance: Option<f64>,
+    /// Power rating of the fitted resistors [default: 0.25 W].
+    #[arg(long, value_name = "WATTS", value_parser = watts, allow_hyphen_values = true, help_heading = "Resistors")]
+    pub resistor_rating: Option<f64>,
+    /// Preferred-value series for sized values: E6, E12, E24, E48, E96 [default: E24].
+    #[arg(long, value_name = "SERIES", value_parser = series, help_heading = "Resistors")]
+    pub series: Option<Series>,
+    /// Wanted worst-case overdrive over the minimum gain [default: 2].
+    #[arg(long, value_name = "K", value_parser = number, allow_hyphen_values = true, help_heading = "Resistors")]
+    pub overdrive: Option<f64>,
+}
+
+impl StageArgs {
+    /// True when any stage flag is set.
+    pub fn any(&self) -> bool {
+        let d = StageArgs::default();
+        format!("{self:?}") != format!("{d:?}")
+    }
+}

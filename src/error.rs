@@ -1,0 +1,143 @@
+//! Errors of the library: every message says what was wrong, where (flag, file, JSON path) and
+//! what is accepted. All of them mean "the input could not be used" (exit code 2).
+
+use std::path::PathBuf;
+
+use crate::quantity::ParseValueError;
+
+/// Result alias of the library.
+pub type Result<T> = std::result::Result<T, Error>;
+
+/// Anything that stops the tool from using its input.
+#[derive(Debug, thiserror::Error)]
+pub enum Error {
+    /// A typed value (flag) could not be read.
+    #[error("{flag}: {source}")]
+    Value {
+        /// The flag, e.g. `--supply`.
+        flag: String,
+        /// What the parser said.
+        source: ParseValueError,
+    },
+    /// A file could not be read from disk.
+    #[error("{}: cannot read the file: {source}", path.display())]
+    Io {
+        /// The file.
+        path: PathBuf,
+        /// The operating system's reason.
+        source: std::io::Error,
+    },
+    /// A JSON file is malformed or does not fit its schema (unknown key, wrong type, missing field).
+    #[error("{file}: {location}{message}")]
+    Json {
+        /// The file (or `<flags>`).
+        file: String,
+        /// `line L, column C, at PATH: ` or `at PATH: `.
+        location: String,
+        /// What serde said, lightly reworded.
+        message: String,
+    },
+    /// A value is out of its allowed range or inconsistent with another.
+    #[error("{place}: {message}")]
+    Invalid {
+        /// Where: `FILE: stages[2].load.coil_ohms` or a flag such as `--coil-resistance`.
+        place: String,
+        /// What is wrong and what is accepted.
+        message: String,
+    },
+    /// A stage names a part that no library holds.
+    #[error("{place}: unknown part `{id}`; known parts: {known}")]
+    UnknownPart {
+        /// Where the part was named.
+        place: String,
+        /// The id asked for.
+        id: String,
+        /// The ids that exist, comma separated.
+        known: String,
+    },
+    /// Two part files in one folder claim the same id.
+    #[error("part `{id}` is defined twice: {first} and {second}")]
+    DuplicatePart {
+        /// The id.
+        id: String,
+        /// First file.
+        first: String,
+        /// Second file.
+        second: String,
+    },
+    /// A usage problem with the command line that clap cannot see (flags that do not fit together).
+    #[error("{0}")]
+    Usage(String),
+}
+
+impl Error {
+    /// Shorthand for [`Error::Invalid`].
+    pub fn invalid(place: impl Into<String>, message: impl Into<String>) -> Self {
+        Error::Invalid {
+            place: place.into(),
+            message: message.into(),
+        }
+    }
+
+    /// Turn a serde_json error met while reading `file` at `path` into an [`Error::Json`] that
+    /// gives line, column and JSON path.
+    pub fn from_json(file: &str, path: &str, err: &serde_json::Error) -> Self {
+        let mut location = String::new();
+        if err.line() > 0 {
+            location.push_str(&format!("line {}, column {}", err.line(), err.column()));
+        }
+        let path = path.trim_end_matches(".?").trim_end_matches('?');
+        if !path.is_empty() && path != "." {
+            if !location.is_empty() {
+                location.push_str(", ");
+            }
+            location.push_str(&format!("at {path}"));
+        }
+        if !location.is_empty() {
+            location.push_str(": ");
+        }
+        // serde appends " at line L column C" to its message; we already said where.
+        let text = err.to_string();
+        let message = match text.rfind(" at line ") {
+            Some(i) => text[..i].to_string(),
+            None => text,
+        };
+        Error::Json {
+            file: file.to_string(),
+            location,
+            message,
+        }
+    }
+}
+
+/// Deserialize `text` (the contents of `file`) into `T`, with errors that name line, column and
+/// JSON path.
+pub fn parse_json<T: serde::de::DeserializeOwned>(file: &str, text: &str) -> Result<T> {
+    let mut de = serde_json::Deserializer::from_str(text);
+    let value: T = serde_path_to_error::deserialize(&mut de).map_err(|e| {
+        let path = e.path().to_string();
+        let mut err = Error::from_json(file, &path, e.inner());
+        if let Error::Json { message, .. } = &mut err {
+            if non_finite_at(text, e.inner().line(), e.inner().column()) {
+                message.push_str(" (JSON has no NaN or Infinity: give a finite number)");
+            }
+        }
+        err
+    })?;
+    de.end().map_err(|e| Error::from_json(file, "", &e))?;
+    Ok(value)
+}
+
+/// True when the text at a 1-based line and column starts a NaN or Infinity token.
+fn non_finite_at(text: &str, line: usize, column: usize) -> bool {
+    let Some(l) = text.lines().nth(line.saturating_sub(1)) else {
+        return false;
+    };
+    let start = l
+        .char_indices()
+        .nth(column.saturating_sub(1))
+        .map(|(i, _)| i)
+        .unwrap_or(l.len());
+    let rest = l[start..].trim_start_matches('-');
+    rest.starts_with("NaN") || rest.starts_with("Infinity") || rest.starts_with("inf")
+}

@@ -1,0 +1,1081 @@
+//! Typed quantities used inside the crate, and the one parser of values a user types.
+//!
+//! Everything the user types (flags) goes through [`parse_value`]; everything inside the crate is a
+//! `uom` quantity. Renderers turn quantities back into numbers with [`format_engineering`].
+
+pub use uom::si::f64::{
+    ElectricCurrent as Current, ElectricPotential as Voltage, ElectricalResistance as Resistance,
+    Energy, Inductance, Length, Power, TemperatureInterval, ThermalResistance,
+    ThermodynamicTemperature as Temperature, Time,
+};
+
+/// What kind of value a flag takes; decides which unit symbols are accepted.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum ValueKind {
+    /// volts: `12`, `12V`, `3V3`, `3300mV`
+    Voltage,
+    /// amperes: `0.02`, `20mA`, `20 mA`, `1.5A`
+    Current,
+    /// ohms: `4.7k`, `4k7`, `R47`, `2M2`, `470R`, `470 ohm`, `470Ω`
+    Resistance,
+    /// watts: `0.25W`, `250mW`
+    Power,
+    /// degrees Celsius: `-40C`, `-40 °C`, `85`
+    Temperature,
+    /// henries: `0.2H`, `200mH`
+    Inductance,
+    /// seconds: `1ms`, `0.001s`
+    Time,
+    /// metres: `2m`, `2` (note: `m` alone after a number means metres here, not milli)
+    Length,
+    /// a fraction: `0.05`, `5%`
+    Fraction,
+    /// a bare number with no unit: `2`, `2.5`
+    Plain,
+}
+
+impl ValueKind {
+    /// Every kind, in declaration order.
+    pub const ALL: [ValueKind; 10] = [
+        ValueKind::Voltage,
+        ValueKind::Current,
+        ValueKind::Resistance,
+        ValueKind::Power,
+        ValueKind::Temperature,
+        ValueKind::Inductance,
+        ValueKind::Time,
+        ValueKind::Length,
+        ValueKind::Fraction,
+        ValueKind::Plain,
+    ];
+}
+
+/// A value the user typed could not be read.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+#[error("cannot read `{input}` as {what}: {reason}; accepted forms: {forms}", what = kind_name(*kind), forms = accepted_forms(*kind))]
+pub struct ParseValueError {
+    /// The text as typed.
+    pub input: String,
+    /// The kind of value that was expected.
+    pub kind: ValueKind,
+    /// Why it was refused, in a few words.
+    pub reason: String,
+}
+
+/// Human name of a kind ("a voltage").
+pub fn kind_name(kind: ValueKind) -> &'static str {
+    match kind {
+        ValueKind::Voltage => "a voltage",
+        ValueKind::Current => "a current",
+        ValueKind::Resistance => "a resistance",
+        ValueKind::Power => "a power",
+        ValueKind::Temperature => "a temperature",
+        ValueKind::Inductance => "an inductance",
+        ValueKind::Time => "a time",
+        ValueKind::Length => "a length",
+        ValueKind::Fraction => "a fraction",
+        ValueKind::Plain => "a number",
+    }
+}
+
+/// Examples of accepted forms for a kind, for error messages.
+pub fn accepted_forms(kind: ValueKind) -> &'static str {
+    match kind {
+        ValueKind::Voltage => "12, 12V, 3.3 V, 3V3, 3300mV",
+        ValueKind::Current => "0.02, 20mA, 20 mA, 2m5, 1.5A, 1A5",
+        ValueKind::Resistance => "470, 470R, 4.7k, 4k7, R47, 2M2, 470 ohm, 4.7kΩ",
+        ValueKind::Power => "0.25, 0.25W, 250mW, 0W25",
+        ValueKind::Temperature => "85, -40, -40C, -40 °C",
+        ValueKind::Inductance => "0.2, 0.2H, 200mH, 200 mH",
+        ValueKind::Time => "0.001, 1ms, 1 ms, 0.001s",
+        ValueKind::Length => "2, 2m, 500mm, 50cm",
+        ValueKind::Fraction => "0.05, 5%",
+        ValueKind::Plain => "2, 2.5, 1e-3",
+    }
+}
+
+/// Longest input read, in bytes; nobody types a value longer than this.
+const MAX_INPUT_BYTES: usize = 64;
+
+/// Exponents are clamped to this size before the final conversion; anything that large
+/// overflows to infinity or underflows to zero anyway.
+const MAX_EXPONENT: i64 = 100_000;
+
+/// SI prefixes shared by every kind that takes prefixes, with their power of ten.
+const SI_PREFIXES: &[(&str, i32)] = &[
+    ("p", -12),
+    ("n", -9),
+    ("u", -6),
+    ("\u{b5}", -6),  // MICRO SIGN
+    ("\u{3bc}", -6), // GREEK SMALL LETTER MU
+    ("m", -3),
+    ("k", 3),
+    ("M", 6),
+    ("G", 9),
+];
+
+/// The prefixes one kind accepts: `K` is kilo only for ohms, `c` (centi) only for lengths.
+fn prefixes(kind: ValueKind) -> impl Iterator<Item = (&'static str, i32)> {
+    let base: &'static [(&'static str, i32)] = match kind {
+        ValueKind::Temperature | ValueKind::Fraction | ValueKind::Plain => &[],
+        _ => SI_PREFIXES,
+    };
+    let extra: &'static [(&'static str, i32)] = match kind {
+        ValueKind::Resistance => &[("K", 3)],
+        ValueKind::Length => &[("c", -2)],
+        _ => &[],
+    };
+    base.iter().chain(extra.iter()).copied()
+}
+
+/// Unit symbols a kind accepts. Letters that are not prefixes may be typed in either case.
+fn unit_symbols(kind: ValueKind) -> &'static [&'static str] {
+    match kind {
+        ValueKind::Voltage => &["V", "v"],
+        ValueKind::Current => &["A", "a"],
+        ValueKind::Resistance => &[
+            "ohms", "Ohms", "OHMS", "ohm", "Ohm", "OHM", "\u{3a9}", "\u{2126}", "R", "r",
+        ],
+        ValueKind::Power => &["W", "w"],
+        ValueKind::Temperature => &["\u{b0}C", "\u{b0}c", "\u{2103}", "degC", "C", "c"],
+        ValueKind::Inductance => &["H", "h"],
+        ValueKind::Time => &["s"],
+        ValueKind::Length => &["m"],
+        ValueKind::Fraction => &["%"],
+        ValueKind::Plain => &[],
+    }
+}
+
+/// The unit named in error messages.
+fn unit_label(kind: ValueKind) -> &'static str {
+    match kind {
+        ValueKind::Voltage => "V",
+        ValueKind::Current => "A",
+        ValueKind::Resistance => "Ω",
+        ValueKind::Power => "W",
+        ValueKind::Temperature => "°C",
+        ValueKind::Inductance => "H",
+        ValueKind::Time => "s",
+        ValueKind::Length => "m",
+        ValueKind::Fraction => "%",
+        ValueKind::Plain => "no unit",
+    }
+}
+
+/// Kinds whose values may be written as an RKM code with a prefix letter as decimal point.
+fn rkm_allowed(kind: ValueKind) -> bool {
+    matches!(
+        kind,
+        ValueKind::Voltage
+            | ValueKind::Current
+            | ValueKind::Resistance
+            | ValueKind::Power
+            | ValueKind::Inductance
+            | ValueKind::Time
+    )
+}
+
+/// The unit letter that may stand for the decimal point in an RKM code (`3V3`, `1A5`, `4R7`).
+fn rkm_unit_letter(kind: ValueKind, c: char) -> bool {
+    match kind {
+        ValueKind::Voltage => matches!(c, 'V' | 'v'),
+        ValueKind::Current => matches!(c, 'A' | 'a'),
+        ValueKind::Power => matches!(c, 'W' | 'w'),
+        ValueKind::Resistance => matches!(c, 'R' | 'r'),
+        _ => false,
+    }
+}
+
+/// If `s` starts with an RKM letter of `kind` followed by a digit, the letter's length in bytes
+/// and its power of ten.
+fn rkm_letter(s: &str, kind: ValueKind) -> Option<(usize, i32)> {
+    if !rkm_allowed(kind) {
+        return None;
+    }
+    let c = s.chars().next()?;
+    let (len, exp) = if rkm_unit_letter(kind, c) {
+        (c.len_utf8(), 0)
+    } else {
+        let (p, e) = prefixes(kind).find(|(p, _)| s.starts_with(p))?;
+        (p.len(), e)
+    };
+    s[len..]
+        .starts_with(|d: char| d.is_ascii_digit())
+        .then_some((len, exp))
+}
+
+/// The longest unit (with optional prefix) at the start of `s`: (power of ten, bytes used).
+/// A prefix without a unit counts only for resistances, and only when `bare_prefix` is set.
+fn match_unit(s: &str, kind: ValueKind, bare_prefix: bool) -> Option<(i32, usize)> {
+    let mut best: Option<(i32, usize)> = None;
+    let mut consider = |exp: i32, len: usize| {
+        if best.map_or(true, |(_, l)| len > l) {
+            best = Some((exp, len));
+        }
+    };
+    // `%` is the only unit that scales the number by itself (5% = 0.05).
+    let unit_exp = |u: &str| if u == "%" { -2 } else { 0 };
+    for u in unit_symbols(kind) {
+        if s.starts_with(u) {
+            consider(unit_exp(u), u.len());
+        }
+    }
+    for (p, e) in prefixes(kind) {
+        if let Some(after) = s.strip_prefix(p) {
+            if bare_prefix && kind == ValueKind::Resistance {
+                consider(e, p.len());
+            }
+            for u in unit_symbols(kind) {
+                if after.starts_with(u) {
+                    consider(e, p.len() + u.len());
+                }
+            }
+        }
+    }
+    best
+}
+
+/// Why `suffix` (all the text after the number) is not a unit of `kind`.
+fn explain_bad_unit(suffix: &str, kind: ValueKind) -> String {
+    let name = kind_name(kind);
+    let label = unit_label(kind);
+    if kind == ValueKind::Plain {
+        return format!("a plain number takes no unit, found `{suffix}`");
+    }
+    if suffix.starts_with('%') {
+        return format!("`%` is only accepted for fractions; give {name} in {label}");
+    }
+    if suffix.starts_with(',') {
+        return "use `.` as the decimal point, not `,`".to_string();
+    }
+    if kind == ValueKind::Temperature && matches!(suffix, "K" | "\u{b0}F" | "F") {
+        return format!("`{suffix}` is not accepted; give the temperature in °C");
+    }
+    if let Some((p, _)) = prefixes(kind).find(|(p, _)| *p == suffix) {
+        return format!("a prefix alone is only accepted for resistances; write the unit after `{p}`, e.g. `{p}{label}`");
+    }
+    for other in ValueKind::ALL.into_iter().filter(|k| *k != kind) {
+        if match_unit(suffix, other, false).is_some_and(|(_, len)| len == suffix.len()) {
+            return format!(
+                "`{suffix}` is a unit of {}, but {name} was expected (unit {label})",
+                kind_name(other)
+            );
+        }
+    }
+    if suffix.starts_with('K') {
+        return format!(
+            "`{suffix}` is not a unit of {name} (kilo is a lowercase `k`; unit {label})"
+        );
+    }
+    format!("`{suffix}` is not a unit of {name} (expected {label})")
+}
+
+/// Take the longest run of ASCII digits at the start of `s`.
+fn digits(s: &str) -> (&str, &str) {
+    let end = s.find(|c: char| !c.is_ascii_digit()).unwrap_or(s.len());
+    s.split_at(end)
+}
+
+/// A decimal number as typed: integer digits, fraction digits, exponent.
+struct Number<'a> {
+    int: &'a str,
+    frac: &'a str,
+    point: bool,
+    exp: i64,
+    has_exp: bool,
+}
+
+/// Read `[digits][.digits][e[+-]digits]` from the start of `s`; returns the number and the rest.
+fn scan_number(s: &str) -> (Number<'_>, &str) {
+    let (int, rest) = digits(s);
+    let (point, frac, rest) = match rest.strip_prefix('.') {
+        Some(after) => {
+            let (frac, rest) = digits(after);
+            (true, frac, rest)
+        }
+        None => (false, "", rest),
+    };
+    let mut number = Number {
+        int,
+        frac,
+        point,
+        exp: 0,
+        has_exp: false,
+    };
+    if int.is_empty() && frac.is_empty() {
+        return (number, rest);
+    }
+    if let Some(after_e) = rest.strip_prefix(['e', 'E']) {
+        let (negative, unsigned) = match after_e.strip_prefix(['+', '-']) {
+            Some(u) => (after_e.starts_with('-'), u),
+            None => (false, after_e),
+        };
+        let (exp_digits, after) = digits(unsigned);
+        if !exp_digits.is_empty() {
+            let magnitude = exp_digits.bytes().fold(0i64, |acc, b| {
+                (acc * 10 + i64::from(b - b'0')).min(MAX_EXPONENT)
+            });
+            number.exp = if negative { -magnitude } else { magnitude };
+            number.has_exp = true;
+            return (number, after);
+        }
+    }
+    (number, rest)
+}
+
+/// `int.frac * 10^exp`, correctly rounded by the standard library's decimal reader.
+fn decimal_value(int: &str, frac: &str, exp: i64) -> Option<f64> {
+    let int = if int.is_empty() { "0" } else { int };
+    let exp = exp.clamp(-MAX_EXPONENT, MAX_EXPONENT);
+    format!("{int}.{frac}0e{exp}").parse::<f64>().ok()
+}
+
+/// Parse text into a number in base SI units (V, A, ohm, W, degrees C, H, s, m; fractions as 0..1).
+///
+/// The number may carry a unit of its kind with an SI prefix (`20mA`, `20 mA`), or be an
+/// IEC 60062 RKM code where a letter stands for the decimal point (`4k7`, `R47`, `3V3`, `2m5`).
+/// Negative numbers are read for every kind; callers decide whether a sign is allowed.
+pub fn parse_value(text: &str, kind: ValueKind) -> Result<f64, ParseValueError> {
+    let fail = |reason: String| ParseValueError {
+        input: text.to_string(),
+        kind,
+        reason,
+    };
+    let t = text.trim();
+    if t.len() > MAX_INPUT_BYTES {
+        let mut cut = MAX_INPUT_BYTES;
+        while !t.is_char_boundary(cut) {
+            cut -= 1;
+        }
+        return Err(ParseValueError {
+            input: format!("{}…", &t[..cut]),
+            kind,
+            reason: format!("too long (more than {MAX_INPUT_BYTES} bytes)"),
+        });
+    }
+    if t.is_empty() {
+        return Err(fail("no value given".to_string()));
+    }
+    let (negative, unsigned) = match t.strip_prefix(['-', '\u{2212}']) {
+        Some(rest) => (true, rest),
+        None => (false, t.strip_prefix('+').unwrap_or(t)),
+    };
+    let lower = unsigned.to_ascii_lowercase();
+    if lower.starts_with("nan") || lower.starts_with("inf") {
+        return Err(fail("NaN and infinity are not values".to_string()));
+    }
+    let (number, rest) = scan_number(unsigned);
+
+    let magnitude = if number.int.is_empty() && number.frac.is_empty() {
+        // Only the resistance form `R47` may start without a digit.
+        match rkm_letter(rest, kind) {
+            Some((len, 0)) if kind == ValueKind::Resistance && !number.point => {
+                read_rkm("", &rest[len..], 0, kind).map_err(fail)?
+            }
+            _ if number.point => return Err(fail("no digits around the decimal point".into())),
+            _ => return Err(fail("there is no number".to_string())),
+        }
+    } else if rest.starts_with('.') {
+        return Err(fail("two decimal points".to_string()));
+    } else if let Some((len, exp)) = rkm_letter(rest, kind) {
+        if number.point || number.has_exp {
+            return Err(fail(format!(
+                "`{}` is an RKM letter standing for the decimal point, so the number cannot also have a decimal point or exponent",
+                &rest[..len]
+            )));
+        }
+        read_rkm(number.int, &rest[len..], exp, kind).map_err(fail)?
+    } else {
+        let suffix = rest.trim_start();
+        let exp = if suffix.is_empty() {
+            0
+        } else if let Some((exp, len)) = match_unit(suffix, kind, true) {
+            let after = &suffix[len..];
+            if !after.is_empty() {
+                return Err(fail(format!(
+                    "unexpected `{after}` after `{}`",
+                    &suffix[..len]
+                )));
+            }
+            exp
+        } else {
+            return Err(fail(explain_bad_unit(suffix, kind)));
+        };
+        decimal_value(number.int, number.frac, number.exp + i64::from(exp))
+            .ok_or_else(|| fail("not a number".to_string()))?
+    };
+    if !magnitude.is_finite() {
+        return Err(fail("too large".to_string()));
+    }
+    Ok(if negative { -magnitude } else { magnitude })
+}
+
+/// The part of an RKM code after its letter: fraction digits, then (after a prefix letter only)
+/// an optional unit symbol such as `4k7Ω` or `2m5A`.
+fn read_rkm(int: &str, after_letter: &str, exp: i32, kind: ValueKind) -> Result<f64, String> {
+    let (frac, rest) = digits(after_letter);
+    if rest.starts_with('.') {
+        return Err("two decimal points".to_string());
+    }
+    // Prefix letters all have a non-zero exponent; a zero exponent means a unit letter (`3V3`),
+    // after which no unit may follow.
+    let unit_letter = exp == 0;
+    let tail = rest.trim_start();
+    if !tail.is_empty() {
+        let unit_len = unit_symbols(kind)
+            .iter()
+            .filter(|u| tail.starts_with(**u))
+            .map(|u| u.len())
+            .max();
+        match unit_len {
+            Some(len) if !unit_letter && len == tail.len() => {}
+            Some(len) if !unit_letter => {
+                return Err(format!("unexpected `{}` after the RKM code", &tail[len..]))
+            }
+            _ => return Err(format!("unexpected `{tail}` after the RKM code")),
+        }
+    }
+    decimal_value(int, frac, i64::from(exp)).ok_or_else(|| "not a number".to_string())
+}
+
+/// Parse an ambient range such as `-40..85`, `-40C..85C` or `-40 .. 85 °C` into (min, max) in degrees C.
+/// Refuses min above max.
+pub fn parse_temperature_range(text: &str) -> Result<(f64, f64), ParseValueError> {
+    let fail = |reason: String| ParseValueError {
+        input: text.to_string(),
+        kind: ValueKind::Temperature,
+        reason,
+    };
+    if text.contains("...") {
+        return Err(fail(
+            "write the range with two dots, like -40..85".to_string(),
+        ));
+    }
+    let Some((low, high)) = text.split_once("..") else {
+        return Err(fail("expected a range such as -40..85".to_string()));
+    };
+    if high.contains("..") {
+        return Err(fail("more than one `..` in the range".to_string()));
+    }
+    let low = parse_value(low, ValueKind::Temperature)
+        .map_err(|e| fail(format!("lower end: {}", e.reason)))?;
+    let high = parse_value(high, ValueKind::Temperature)
+        .map_err(|e| fail(format!("upper end: {}", e.reason)))?;
+    if low > high {
+        return Err(fail(format!(
+            "the lower end {low} °C is above the upper end {high} °C"
+        )));
+    }
+    Ok((low, high))
+}
+
+/// A finite, non-negative value rounded to 3 significant digits: the digits (always 3) and the
+/// decimal exponent of the first digit.
+fn three_digits(v: f64) -> Option<(String, i32)> {
+    let s = format!("{v:.2e}");
+    let (mantissa, exp) = s.split_once('e')?;
+    let exp = exp.parse::<i32>().ok()?;
+    let digits: String = mantissa.chars().filter(char::is_ascii_digit).collect();
+    (digits.len() == 3).then_some((digits, exp))
+}
+
+/// Split `digits` into integer and fraction parts with `int_len` integer digits (padding with
+/// zeros on either side as needed); trailing zeros of the fraction are dropped.
+fn place_point(digits: &str, int_len: i32) -> (String, String) {
+    let n = digits.len() as i32;
+    let (int, frac) = if int_len <= 0 {
+        (
+            String::new(),
+            "0".repeat(int_len.unsigned_abs() as usize) + digits,
+        )
+    } else if int_len >= n {
+        (
+            digits.to_string() + &"0".repeat((int_len - n) as usize),
+            String::new(),
+        )
+    } else {
+        let (i, f) = digits.split_at(int_len as usize);
+        (i.to_string(), f.to_string())
+    };
+    (int, frac.trim_end_matches('0').to_string())
+}
+
+/// Format a number with an SI prefix and 3 significant digits: `format_engineering(0.00274, "A")`
+/// gives `2.74 mA`; `4700.0, "Ω"` gives `4.7 kΩ`; zero gives `0 A`; non-finite values give `-`.
+/// Prefixes run from p to G; values outside that range keep the end prefix.
+pub fn format_engineering(value: f64, unit: &str) -> String {
+    if !value.is_finite() {
+        return "-".to_string();
+    }
+    let (number, prefix) = match three_digits(value.abs()) {
+        Some((digits, _)) if digits == "000" => ("0".to_string(), ""),
+        Some((digits, exp)) => {
+            let e3 = (exp.div_euclid(3) * 3).clamp(-12, 9);
+            let (int, frac) = place_point(&digits, exp - e3 + 1);
+            let int = if int.is_empty() { "0".to_string() } else { int };
+            let sign = if value < 0.0 { "-" } else { "" };
+            let number = if frac.is_empty() {
+                format!("{sign}{int}")
+            } else {
+                format!("{sign}{int}.{frac}")
+            };
+            let prefix = match e3 {
+                -12 => "p",
+                -9 => "n",
+                -6 => "µ",
+                -3 => "m",
+                3 => "k",
+                6 => "M",
+                9 => "G",
+                _ => "",
+            };
+            (number, prefix)
+        }
+        None => return "-".to_string(),
+    };
+    format!("{number} {prefix}{unit}").trim_end().to_string()
+}
+
+/// The IEC 60062 RKM code of a resistance in ohms: 4700 -> `4k7`, 0.47 -> `R47`, 2.2e6 -> `2M2`,
+/// 470 -> `470R`, 10_000 -> `10k`. At most 3 significant digits (the value is rounded first).
+/// Zero gives `0R`, negative values get a leading `-`, non-finite values give `-`.
+pub fn format_rkm(ohms: f64) -> String {
+    if !ohms.is_finite() {
+        return "-".to_string();
+    }
+    let Some((digits, exp)) = three_digits(ohms.abs()) else {
+        return "-".to_string();
+    };
+    if digits == "000" {
+        return "0R".to_string();
+    }
+    let (letter, letter_exp) = match exp {
+        e if e >= 9 => ('G', 9),
+        e if e >= 6 => ('M', 6),
+        e if e >= 3 => ('k', 3),
+        _ => ('R', 0),
+    };
+    let (int, frac) = place_point(&digits, exp - letter_exp + 1);
+    let sign = if ohms < 0.0 { "-" } else { "" };
+    format!("{sign}{int}{letter}{frac}")
+}
+
+/// Build a voltage from volts.
+pub fn volts(v: f64) -> Voltage {
+    Voltage::new::<uom::si::electric_potential::volt>(v)
+}
+/// Build a current from amperes.
+pub fn amps(a: f64) -> Current {
+    Current::new::<uom::si::electric_current::ampere>(a)
+}
+/// Build a resistance from ohms.
+pub fn ohms(r: f64) -> Resistance {
+    Resistance::new::<uom::si::electrical_resistance::ohm>(r)
+}
+/// Build a power from watts.
+pub fn watts(p: f64) -> Power {
+    Power::new::<uom::si::power::watt>(p)
+}
+/// Build a temperature from degrees Celsius.
+pub fn celsius(t: f64) -> Temperature {
+    Temperature::new::<uom::si::thermodynamic_temperature::degree_celsius>(t)
+}
+/// Build a temperature difference from kelvins.
+pub fn kelvins(k: f64) -> TemperatureInterval {
+    TemperatureInterval::new::<uom::si::temperature_interval::kelvin>(k)
+}
+/// Build an inductance from henries.
+pub fn henries(h: f64) -> Inductance {
+    Inductance::new::<uom::si::inductance::henry>(h)
+}
+/// Build a time from seconds.
+pub fn seconds(s: f64) -> Time {
+    Time::new::<uom::si::time::second>(s)
+}
+/// Build a thermal resistance from kelvins per watt.
+pub fn kelvin_per_watt(k: f64) -> ThermalResistance {
+    ThermalResistance::new::<uom::si::thermal_resistance::kelvin_per_watt>(k)
+}
+
+/// Read-back helpers: the plain number of a quantity in its base unit.
+pub trait Base {
+    /// The value in the base SI unit (V, A, ohm, W, degrees C for temperatures, H, s, K/W, J).
+    fn base(&self) -> f64;
+}
+macro_rules! base_impl {
+    ($t:ty, $unit:path) => {
+        impl Base for $t {
+            fn base(&self) -> f64 {
+                self.get::<$unit>()
+            }
+        }
+    };
+}
+base_impl!(Voltage, uom::si::electric_potential::volt);
+base_impl!(Current, uom::si::electric_current::ampere);
+base_impl!(Resistance, uom::si::electrical_resistance::ohm);
+base_impl!(Power, uom::si::power::watt);
+base_impl!(
+    Temperature,
+    uom::si::thermodynamic_temperature::degree_celsius
+);
+base_impl!(TemperatureInterval, uom::si::temperature_interval::kelvin);
+base_impl!(Inductance, uom::si::inductance::henry);
+base_impl!(Time, uom::si::time::second);
+base_impl!(
+    ThermalResistance,
+    uom::si::thermal_resistance::kelvin_per_watt
+);
+base_impl!(Energy, uom::si::energy::joule);
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::eseries::Series;
+    use ValueKind::*;
+
+    fn ok(text: &str, kind: ValueKind) -> f64 {
+        match parse_value(text, kind) {
+            Ok(v) => v,
+            Err(e) => panic!("`{text}` as {kind:?} refused: {e}"),
+        }
+    }
+
+    /// Parse must fail, and the reason must contain `needle`.
+    fn refused(text: &str, kind: ValueKind, needle: &str) -> ParseValueError {
+        match parse_value(text, kind) {
+            Ok(v) => panic!("`{text}` as {kind:?} accepted as {v}"),
+            Err(e) => {
+                assert_eq!(e.kind, kind);
+                assert!(
+                    e.reason.contains(needle),
+                    "`{text}`: reason `{}` lacks `{needle}`",
+                    e.reason
+                );
+                e
+            }
+        }
+    }
+
+    #[test]
+    fn plain_numbers() {
+        assert_eq!(ok("12", Voltage), 12.0);
+        assert_eq!(ok("0.25", Power), 0.25);
+        assert_eq!(ok("1e-3", Current), 0.001);
+        assert_eq!(ok("1E3", Resistance), 1000.0);
+        assert_eq!(ok("2.5e+2", Plain), 250.0);
+        assert_eq!(ok("+5", Voltage), 5.0);
+        assert_eq!(ok(".5", Fraction), 0.5);
+        assert_eq!(ok("2.", Plain), 2.0);
+        assert_eq!(ok("0", Current), 0.0);
+    }
+
+    #[test]
+    fn negative_numbers_parse_for_every_kind() {
+        assert_eq!(ok("-40", Temperature), -40.0);
+        assert_eq!(ok("-40C", Temperature), -40.0);
+        assert_eq!(ok("\u{2212}40 °C", Temperature), -40.0); // unicode minus sign
+        assert_eq!(ok("-12V", Voltage), -12.0);
+        assert_eq!(ok("-20mA", Current), -0.02);
+        assert_eq!(ok("-4.7k", Resistance), -4700.0);
+        assert_eq!(ok("-4k7", Resistance), -4700.0);
+        assert_eq!(ok("-0.5", Plain), -0.5);
+        assert_eq!(ok("-5%", Fraction), -0.05);
+    }
+
+    #[test]
+    fn whitespace_around_and_between_number_and_unit() {
+        assert_eq!(ok("20 mA", Current), 0.02);
+        assert_eq!(ok("3.3 V", Voltage), 3.3);
+        assert_eq!(ok("  12V\t", Voltage), 12.0);
+        assert_eq!(ok("470 ohm", Resistance), 470.0);
+        assert_eq!(ok("4.7 k", Resistance), 4700.0);
+        assert_eq!(ok("-40 °C", Temperature), -40.0);
+        assert_eq!(ok("5 %", Fraction), 0.05);
+    }
+
+    #[test]
+    fn si_prefixes() {
+        assert_eq!(ok("100pH", Inductance), 100e-12);
+        assert_eq!(ok("100nH", Inductance), 100e-9);
+        assert_eq!(ok("4.7uH", Inductance), 4.7e-6);
+        assert_eq!(ok("4.7\u{b5}H", Inductance), 4.7e-6); // micro sign
+        assert_eq!(ok("4.7\u{3bc}H", Inductance), 4.7e-6); // greek mu
+        assert_eq!(ok("3300mV", Voltage), 3.3);
+        assert_eq!(ok("1kV", Voltage), 1000.0);
+        assert_eq!(ok("2MV", Voltage), 2e6);
+        assert_eq!(ok("1GΩ", Resistance), 1e9);
+        assert_eq!(ok("250mW", Power), 0.25);
+        assert_eq!(ok("1ms", Time), 0.001);
+        assert_eq!(ok("10us", Time), 10e-6);
+        assert_eq!(ok("5ns", Time), 5e-9);
+        assert_eq!(ok("200mH", Inductance), 0.2);
+        assert_eq!(ok("1e3mA", Current), 1.0);
+    }
+
+    #[test]
+    fn m_is_milli_and_capital_m_is_mega() {
+        assert_eq!(ok("2m2", Resistance), 0.0022);
+        assert_eq!(ok("2M2", Resistance), 2.2e6);
+        assert_eq!(ok("1m", Resistance), 0.001);
+        assert_eq!(ok("1M", Resistance), 1e6);
+        assert_eq!(ok("1mV", Voltage), 0.001);
+        assert_eq!(ok("1MV", Voltage), 1e6);
+    }
+
+    #[test]
+    fn unit_symbols_per_kind() {
+        assert_eq!(ok("12V", Voltage), 12.0);
+        assert_eq!(ok("12v", Voltage), 12.0);
+        assert_eq!(ok("1.5A", Current), 1.5);
+        assert_eq!(ok("20ma", Current), 0.02);
+        for text in [
+            "470ohm",
+            "470ohms",
+            "470 Ohms",
+            "470OHM",
+            "470Ω",
+            "470\u{2126}",
+            "470R",
+        ] {
+            assert_eq!(ok(text, Resistance), 470.0, "{text}");
+        }
+        assert_eq!(ok("470r", Resistance), 470.0);
+        assert_eq!(ok("4.7kΩ", Resistance), 4700.0);
+        assert_eq!(ok("4.7kohm", Resistance), 4700.0);
+        assert_eq!(ok("0.25W", Power), 0.25);
+        assert_eq!(ok("85C", Temperature), 85.0);
+        assert_eq!(ok("85°C", Temperature), 85.0);
+        assert_eq!(ok("85℃", Temperature), 85.0);
+        assert_eq!(ok("0.2H", Inductance), 0.2);
+        assert_eq!(ok("0.001s", Time), 0.001);
+        assert_eq!(ok("2m", Length), 2.0);
+        assert_eq!(ok("5%", Fraction), 0.05);
+    }
+
+    #[test]
+    fn prefix_alone_for_resistance() {
+        assert_eq!(ok("4.7k", Resistance), 4700.0);
+        assert_eq!(ok("4.7K", Resistance), 4700.0);
+        assert_eq!(ok("2.2M", Resistance), 2.2e6);
+        assert_eq!(ok("470", Resistance), 470.0);
+        assert_eq!(ok("1G", Resistance), 1e9);
+        assert_eq!(ok("100m", Resistance), 0.1);
+    }
+
+    // RKM code: IEC 60062 (letter and code for resistance values), a letter as the decimal point.
+    #[test]
+    fn rkm_resistance() {
+        assert_eq!(ok("4k7", Resistance), 4700.0);
+        assert_eq!(ok("4K7", Resistance), 4700.0);
+        assert_eq!(ok("R47", Resistance), 0.47);
+        assert_eq!(ok("r47", Resistance), 0.47);
+        assert_eq!(ok("R047", Resistance), 0.047);
+        assert_eq!(ok("4R7", Resistance), 4.7);
+        assert_eq!(ok("2M2", Resistance), 2.2e6);
+        assert_eq!(ok("1k", Resistance), 1000.0);
+        assert_eq!(ok("1G5", Resistance), 1.5e9);
+        assert_eq!(ok("10k5", Resistance), 10_500.0);
+        assert_eq!(ok("4k7Ω", Resistance), 4700.0);
+        assert_eq!(ok("4k7 ohm", Resistance), 4700.0);
+    }
+
+    // RKM code (IEC 60062 style) with the unit letter or a prefix as the decimal point.
+    #[test]
+    fn rkm_other_kinds() {
+        assert_eq!(ok("3V3", Voltage), 3.3);
+        assert_eq!(ok("3v3", Voltage), 3.3);
+        assert_eq!(ok("3m3", Voltage), 0.0033);
+        assert_eq!(ok("1A5", Current), 1.5);
+        assert_eq!(ok("2m5", Current), 0.0025);
+        assert_eq!(ok("2m5A", Current), 0.0025);
+        assert_eq!(ok("0W25", Power), 0.25);
+        assert_eq!(ok("4u7", Inductance), 4.7e-6);
+        assert_eq!(ok("1m5", Time), 0.0015);
+    }
+
+    #[test]
+    fn lengths_read_m_as_metres() {
+        assert_eq!(ok("500mm", Length), 0.5);
+        assert_eq!(ok("2m", Length), 2.0);
+        assert_eq!(ok("2", Length), 2.0);
+        assert_eq!(ok("50cm", Length), 0.5);
+        assert_eq!(ok("1.5 km", Length), 1500.0);
+    }
+
+    #[test]
+    fn fractions() {
+        assert_eq!(ok("0.05", Fraction), 0.05);
+        assert_eq!(ok("5%", Fraction), 0.05);
+        assert_eq!(ok("100%", Fraction), 1.0);
+        assert_eq!(ok("0.5%", Fraction), 0.005);
+    }
+
+    #[test]
+    fn plain_kind() {
+        assert_eq!(ok("2", Plain), 2.0);
+        assert_eq!(ok("2.5", Plain), 2.5);
+        refused("2V", Plain, "takes no unit");
+        refused("2%", Plain, "takes no unit");
+        refused("2k", Plain, "takes no unit");
+    }
+
+    #[test]
+    fn rejects_empty_and_non_finite() {
+        refused("", Voltage, "no value");
+        refused("   \t", Current, "no value");
+        refused("NaN", Plain, "NaN");
+        refused("nan", Voltage, "NaN");
+        refused("inf", Voltage, "infinity");
+        refused("-Infinity", Temperature, "infinity");
+        refused("INF", Resistance, "infinity");
+        refused("1e999", Plain, "too large");
+        refused("-1e999V", Voltage, "too large");
+        refused("1e308k", Resistance, "too large");
+    }
+
+    #[test]
+    fn rejects_trailing_junk() {
+        refused("12Vx", Voltage, "unexpected `x` after `V`");
+        refused("4k7z", Resistance, "unexpected `z`");
+        refused("12 V V", Voltage, "unexpected ` V`");
+        refused("3V3V", Voltage, "unexpected `V`");
+        refused("4R7k", Resistance, "unexpected `k`");
+        refused("1 2", Plain, "`2`");
+        refused("2m5", Length, "unexpected `5`");
+        refused("500mmm", Length, "unexpected `m`");
+    }
+
+    #[test]
+    fn rejects_unit_of_the_wrong_kind() {
+        let e = refused("20mA", Voltage, "a current");
+        assert!(e.reason.contains("unit V"), "{}", e.reason);
+        assert!(e.reason.contains("a voltage"), "{}", e.reason);
+        refused("12 ohm", Voltage, "a resistance");
+        refused("5mm", Voltage, "a length");
+        refused("12V", Current, "unit A");
+        refused("1ms", Inductance, "unit H");
+        refused("3A3", Voltage, "`A3`");
+    }
+
+    #[test]
+    fn rejects_malformed_numbers() {
+        refused("1.2.3", Plain, "two decimal points");
+        refused("1..2", Voltage, "two decimal points");
+        refused("4k7.5", Resistance, "two decimal points");
+        refused("4.7k7", Resistance, "cannot also have a decimal point");
+        refused("1e3k5", Resistance, "exponent");
+        refused("1,5", Voltage, "decimal point");
+        refused("mA", Current, "no number");
+        refused("V", Voltage, "no number");
+        refused("R", Resistance, "no number");
+        refused("k47", Resistance, "no number");
+        refused("-", Plain, "no number");
+        refused("+-5", Plain, "no number");
+        refused(".", Plain, "no digits");
+        refused("- 5", Plain, "no number");
+    }
+
+    #[test]
+    fn rejects_misplaced_prefixes_and_percent() {
+        refused("5%", Voltage, "only accepted for fractions");
+        refused("20m", Current, "prefix alone");
+        refused("20m", Current, "`mA`");
+        refused("1KV", Voltage, "lowercase `k`");
+        refused("300K", Temperature, "°C");
+        refused("100°F", Temperature, "°C");
+        refused("5mC", Temperature, "°C");
+        refused("12 volts", Voltage, "unexpected `olts` after `v`");
+    }
+
+    #[test]
+    fn rejects_very_long_input_without_echoing_it_all() {
+        let long = "1".repeat(10_000);
+        let e = refused(&long, Plain, "too long");
+        assert!(e.input.chars().count() < 100);
+        let unicode = "µ".repeat(5_000);
+        let e = refused(&unicode, Current, "too long");
+        assert!(e.input.ends_with('…'));
+    }
+
+    #[test]
+    fn error_message_names_input_kind_and_forms() {
+        let e = refused("20mA", Voltage, "a current");
+        let msg = e.to_string();
+        assert!(msg.contains("`20mA`"), "{msg}");
+        assert!(msg.contains("a voltage"), "{msg}");
+        assert!(msg.contains(accepted_forms(Voltage)), "{msg}");
+        assert_eq!(e.input, "20mA");
+    }
+
+    #[test]
+    fn every_accepted_example_parses() {
+        // The forms promised in error messages must themselves be accepted.
+        let kinds = ValueKind::ALL;
+        for kind in kinds {
+            assert!(!kind_name(kind).is_empty());
+            for example in accepted_forms(kind).split(", ") {
+                assert!(ok(example, kind).is_finite(), "{example}");
+            }
+        }
+        assert_eq!(kind_name(Inductance), "an inductance");
+        assert_eq!(kind_name(Plain), "a number");
+    }
+
+    #[test]
+    fn never_panics_on_odd_input() {
+        let pieces = [
+            "0", "1", "9", ".", "e", "E", "-", "+", "k", "K", "R", "m", "M", "µ", "Ω", "%", "V",
+            "A", " ", "°", "C", "\u{301}", "é", "😀", "\u{0}", "..",
+        ];
+        let kinds = ValueKind::ALL;
+        let mut tried = 0;
+        for a in pieces {
+            for b in pieces {
+                for c in pieces {
+                    let text = format!("{a}{b}{c}");
+                    for kind in kinds {
+                        match parse_value(&text, kind) {
+                            Ok(v) => assert!(v.is_finite(), "{text}"),
+                            Err(e) => assert!(!e.reason.is_empty(), "{text}"),
+                        }
+                        tried += 1;
+                    }
+                    if let Ok((lo, hi)) = parse_temperature_range(&text) {
+                        assert!(lo <= hi);
+                    }
+                }
+            }
+        }
+        assert_eq!(tried, pieces.len().pow(3) * kinds.len());
+    }
+
+    #[test]
+    fn temperature_ranges() {
+        assert_eq!(parse_temperature_range("-40..85"), Ok((-40.0, 85.0)));
+        assert_eq!(parse_temperature_range("-40C..85C"), Ok((-40.0, 85.0)));
+        assert_eq!(parse_temperature_range("-40 .. 85 °C"), Ok((-40.0, 85.0)));
+        assert_eq!(parse_temperature_range("-40°C..-10°C"), Ok((-40.0, -10.0)));
+        assert_eq!(parse_temperature_range("25..25"), Ok((25.0, 25.0)));
+        assert_eq!(parse_temperature_range("0.5..1.5"), Ok((0.5, 1.5)));
+    }
+
+    #[test]
+    fn bad_temperature_ranges() {
+        let check = |text: &str, needle: &str| match parse_temperature_range(text) {
+            Ok(r) => panic!("`{text}` accepted as {r:?}"),
+            Err(e) => {
+                assert!(e.reason.contains(needle), "`{text}`: {}", e.reason);
+                assert_eq!(e.kind, Temperature);
+                assert_eq!(e.input, text);
+            }
+        };
+        check("85..-40", "above");
+        check("-40", "expected a range");
+        check("", "expected a range");
+        check("-40...85", "two dots");
+        check("..85", "lower end: no value");
+        check("-40..", "upper end: no value");
+        check("-40..85..100", "more than one");
+        check("-40V..85", "lower end");
+        check("-40..hot", "upper end");
+    }
+
+    #[test]
+    fn engineering_format() {
+        assert_eq!(format_engineering(0.00274, "A"), "2.74 mA");
+        assert_eq!(format_engineering(4700.0, "Ω"), "4.7 kΩ");
+        assert_eq!(format_engineering(12.0, "V"), "12 V");
+        assert_eq!(format_engineering(0.0, "A"), "0 A");
+        assert_eq!(format_engineering(-0.0, "A"), "0 A");
+        assert_eq!(format_engineering(-0.5, "V"), "-500 mV");
+        assert_eq!(format_engineering(0.1, "A"), "100 mA");
+        assert_eq!(format_engineering(1.0, "V"), "1 V");
+        assert_eq!(format_engineering(12_345.0, "Ω"), "12.3 kΩ");
+        assert_eq!(format_engineering(4.7e-6, "H"), "4.7 µH");
+        assert_eq!(format_engineering(3.3e-9, "s"), "3.3 ns");
+        assert_eq!(format_engineering(15e-12, "s"), "15 ps");
+        assert_eq!(format_engineering(2.2e6, "Ω"), "2.2 MΩ");
+        assert_eq!(format_engineering(1.5e9, "Ω"), "1.5 GΩ");
+        assert_eq!(format_engineering(12.0, ""), "12");
+        assert_eq!(format_engineering(4700.0, ""), "4.7 k");
+    }
+
+    #[test]
+    fn engineering_format_rounding_and_extremes() {
+        assert_eq!(format_engineering(999.7, "V"), "1 kV");
+        assert_eq!(format_engineering(0.99996, "A"), "1 A");
+        assert_eq!(format_engineering(1.23456, "W"), "1.23 W");
+        assert_eq!(format_engineering(1e-15, "A"), "0.001 pA");
+        assert_eq!(format_engineering(1.5e12, "W"), "1500 GW");
+        assert_eq!(format_engineering(f64::NAN, "A"), "-");
+        assert_eq!(format_engineering(f64::INFINITY, "A"), "-");
+        assert_eq!(format_engineering(f64::NEG_INFINITY, "A"), "-");
+    }
+
+    #[test]
+    fn engineering_format_reads_back() {
+        for v in Series::E24.values() {
+            let ohms = v.base();
+            let text = format_engineering(ohms, "Ω");
+            assert_eq!(ok(&text, Resistance), ohms, "{text}");
+        }
+    }
+
+    // RKM code output per IEC 60062.
+    #[test]
+    fn rkm_format() {
+        assert_eq!(format_rkm(4700.0), "4k7");
+        assert_eq!(format_rkm(0.47), "R47");
+        assert_eq!(format_rkm(2.2e6), "2M2");
+        assert_eq!(format_rkm(470.0), "470R");
+        assert_eq!(format_rkm(10_000.0), "10k");
+        assert_eq!(format_rkm(1000.0), "1k");
+        assert_eq!(format_rkm(4.7), "4R7");
+        assert_eq!(format_rkm(100e3), "100k");
+        assert_eq!(format_rkm(1e6), "1M");
+        assert_eq!(format_rkm(1.0), "1R");
+        assert_eq!(format_rkm(22.0), "22R");
+        assert_eq!(format_rkm(0.047), "R047");
+        assert_eq!(format_rkm(1.5e9), "1G5");
+        assert_eq!(format_rkm(12e9), "12G");
+        assert_eq!(format_rkm(0.0), "0R");
+        assert_eq!(format_rkm(-4700.0), "-4k7");
+        assert_eq!(format_rkm(f64::NAN), "-");
+        assert_eq!(format_rkm(f64::INFINITY), "-");
+    }
+
+    // IEC 60062 RKM codes hold at most three significant digits; values are rounded first.
+    #[test]
+    fn rkm_format_rounds_to_three_digits() {
+        assert_eq!(format_rkm(4746.0), "4k75");
+        assert_eq!(format_rkm(4744.0), "4k74");
+        assert_eq!(format_rkm(999.6), "1k");
+        assert_eq!(format_rkm(12_345.0), "12k3");
+        assert_eq!(format_rkm(0.4699999), "R47");
+    }
+
+    #[test]
+    fn rkm_format_reads_back_for_every_series_value() {
+        for series in Series::ALL {
+            for v in series.values() {
+                let ohms = v.base();
+                let code = format_rkm(ohms);
+                assert_eq!(ok(&code, Resistance), ohms, "{series} {code}");
+            }
+        }
+    }
+
+    #[test]
+    fn quantity_builders_round_trip() {
+        assert_eq!(volts(3.3).base(), 3.3);
+        assert_eq!(amps(0.02).base(), 0.02);
+        assert_eq!(ohms(4700.0).base(), 4700.0);
+        assert_eq!(watts(0.25).base(), 0.25);
+        approx::assert_relative_eq!(celsius(-40.0).base(), -40.0, max_relative = 1e-12);
+        assert_eq!(henries(0.2).base(), 0.2);
+        assert_eq!(seconds(0.001).base(), 0.001);
+        approx::assert_relative_eq!(kelvins(10.0).base(), 10.0);
+        approx::assert_relative_eq!(kelvin_per_watt(62.5).base(), 62.5);
+    }
+}

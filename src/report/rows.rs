@@ -1,0 +1,273 @@
+//! The shared document builder: turns a [`Report`] into headings, tables and lists that the
+//! table and Markdown renderers both draw. Numbers are formatted here, once.
+
+use super::model::{Report, StageReport};
+use crate::analysis::Status;
+use crate::quantity::format_engineering as fe;
+
+/// A table cell: text, and a status when the cell shows one (for colour).
+#[derive(Clone, Debug, PartialEq)]
+pub struct Cell {
+    /// What is shown.
+    pub text: String,
+    /// The status the cell shows, if any.
+    pub status: Option<Status>,
+}
+
+impl From<String> for Cell {
+    fn from(text: String) -> Self {
+        Cell { text, status: None }
+    }
+}
+
+impl From<&str> for Cell {
+    fn from(text: &str) -> Self {
+        Cell {
+            text: text.to_string(),
+            status: None,
+        }
+    }
+}
+
+/// A block of the document.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Block {
+    /// A heading of level 1 or 2.
+    Heading(u8, String),
+    /// A table with a header row.
+    Table {
+        /// Column headers, units in brackets.
+        headers: Vec<String>,
+        /// Rows.
+        rows: Vec<Vec<Cell>>,
+    },
+    /// A titled bullet list.
+    List(String, Vec<String>),
+    /// A line of text.
+    Line(String),
+    /// A verdict line.
+    Verdict(String, Status),
+}
+
+/// Number with up to `digits` significant digits, trailing zeros trimmed; `-` for none.
+pub fn plain(x: Option<f64>, digits: usize) -> String {
+    match x {
+        Some(v) if v.is_finite() => {
+            if v == 0.0 {
+                return "0".to_string();
+            }
+            let mag = v.abs().log10().floor() as i32;
+            let decimals = (digits as i32 - 1 - mag).max(0) as usize;
+            let s = format!("{v:.decimals$}");
+            if s.contains('.') {
+                s.trim_end_matches('0').trim_end_matches('.').to_string()
+            } else {
+                s
+            }
+        }
+        _ => "-".to_string(),
+    }
+}
+
+fn scaled(x: Option<f64>, scale: f64) -> String {
+    plain(x.map(|v| v * scale), 3)
+}
+
+fn status_cell(s: Status) -> Cell {
+    Cell {
+        text: s.as_str().to_uppercase(),
+        status: Some(s),
+    }
+}
+
+fn figure(v: Option<f64>, unit: &str) -> String {
+    match (v, unit) {
+        (None, _) => "-".to_string(),
+        (Some(v), "") => plain(Some(v), 3),
+        (Some(v), "°C") => format!("{} °C", plain(Some(v), 4)),
+        (Some(v), u) => fe(v, u),
+    }
+}
+
+/// The whole document.
+pub fn document(report: &Report) -> Vec<Block> {
+    let mut out = Vec::new();
+    if let Some(b) = &report.board {
+        out.push(Block::Heading(1, format!("Board: {b}")));
+    }
+    for (i, s) in report.stages.iter().enumerate() {
+        stage_blocks(&mut out, i + 1, s);
+    }
+    let (p, m, f) = report.counts();
+    out.push(Block::Verdict(
+        format!(
+            "Board verdict: {} ({p} pass, {m} marginal, {f} fail)",
+            report.verdict.as_str().to_uppercase()
+        ),
+        report.verdict,
+    ));
+    for s in &report.stages {
+        if !s.assumptions.is_empty() {
+            out.push(Block::List(
+                format!("Assumptions, {}", s.name),
+                s.assumptions.clone(),
+            ));
+        }
+    }
+    let mut cautions: Vec<String> = Vec::new();
+    for s in &report.stages {
+        for c in &s.cautions {
+            if !cautions.contains(c) {
+                cautions.push(c.clone());
+            }
+        }
+    }
+    cautions.extend(report.cautions.iter().cloned());
+    out.push(Block::List("Cautions".to_string(), cautions));
+    out
+}
+
+fn stage_blocks(out: &mut Vec<Block>, n: usize, s: &StageReport) {
+    out.push(Block::Heading(
+        2,
+        format!(
+            "Stage {n}: {} ({}, {} load): {}",
+            s.name,
+            s.part,
+            s.load_kind,
+            s.verdict.as_str().to_uppercase()
+        ),
+    ));
+    let c = &s.conditions;
+    out.push(Block::Line(format!(
+        "Supply {} ±{}, logic high {} (min {}), pin limit {}, ambient {} .. {} °C, overdrive {}",
+        fe(c.supply_v, "V"),
+        pct(c.supply_tolerance),
+        fe(c.logic_high_v, "V"),
+        fe(c.logic_high_min_v, "V"),
+        fe(c.pin_limit_a, "A"),
+        plain(Some(c.ambient_c[0]), 4),
+        plain(Some(c.ambient_c[1]), 4),
+        plain(Some(c.overdrive), 3),
+    )));
+    out.push(Block::Table {
+        headers: vec![
+            "Resistor".into(),
+            "Value".into(),
+            "Code".into(),
+            "Source".into(),
+            "Worst power [mW]".into(),
+            "Rating [W]".into(),
+            "Recommended [W]".into(),
+        ],
+        rows: s
+            .resistors
+            .iter()
+            .map(|r| {
+                vec![
+                    Cell::from(match r.role {
+                        crate::analysis::Role::Base => "RB base",
+                        crate::analysis::Role::PullDown => "RBE pull-down",
+                        crate::analysis::Role::Led => "RL LED",
+                    }),
+                    Cell::from(fe(r.ohms, "Ω")),
+                    Cell::from(r.code.clone()),
+                    Cell::from(if r.sized { "sized" } else { "given" }),
+                    Cell::from(scaled(Some(r.worst_power_w), 1e3)),
+                    Cell::from(format!(
+                        "{} ({})",
+                        plain(Some(r.rating_w), 3),
+                        r.rating_source.as_str()
+                    )),
+                    Cell::from(plain(r.recommended_rating_w, 3)),
+                ]
+            })
+            .collect(),
+    });
+    if let Some(cl) = &s.clamp {
+        let mut line = format!(
+            "Clamp fitted: {}{}. A clamp diode needs reverse rating >= {} and current rating >= {}",
+            cl.fitted,
+            cl.clamp_v
+                .map(|v| format!(" (holds the collector {} above the supply)", fe(v, "V")))
+                .unwrap_or_default(),
+            fe(cl.reverse_min_v, "V"),
+            fe(cl.current_min_a, "A"),
+        );
+        if let (Some(e), Some(t)) = (cl.stored_energy_j, cl.decay_time_constant_s) {
+            line.push_str(&format!(
+                "; the coil stores {} and decays with L/R = {}",
+                fe(e, "J"),
+                fe(t, "s")
+            ));
+        }
+        line.push('.');
+        out.push(Block::Line(line));
+    }
+    let w = &s.worst_case;
+    out.push(Block::Table {
+        headers: vec![
+            "IC max [mA]".into(),
+            "IB min [mA]".into(),
+            "hFE min".into(),
+            "Overdrive".into(),
+            "Forced beta".into(),
+            "Pin max [mA]".into(),
+            "P max [mW]".into(),
+            "Tj max [°C]".into(),
+            "VC peak [V]".into(),
+        ],
+        rows: vec![vec![
+            Cell::from(scaled(Some(w.collector_current_max_a), 1e3)),
+            Cell::from(scaled(Some(w.base_current_min_a), 1e3)),
+            Cell::from(plain(Some(w.gain_min), 3)),
+            Cell::from(plain(w.overdrive_min, 3)),
+            Cell::from(plain(w.forced_beta_max, 3)),
+            Cell::from(scaled(Some(w.pin_current_max_a), 1e3)),
+            Cell::from(scaled(Some(w.power_max_w), 1e3)),
+            Cell::from(plain(Some(w.junction_max_c), 4)),
+            Cell::from(plain(w.collector_peak_v, 3)),
+        ]],
+    });
+    out.push(Block::Table {
+        headers: vec![
+            "Check".into(),
+            "Status".into(),
+            "Figure".into(),
+            "Limit".into(),
+            "Why".into(),
+        ],
+        rows: s
+            .checks
+            .iter()
+            .map(|f| {
+                vec![
+                    Cell::from(f.id.as_str()),
+                    status_cell(f.status),
+                    Cell::from(figure(f.value, f.unit)),
+                    Cell::from(figure(f.limit, f.unit)),
+                    Cell::from(f.detail.clone()),
+                ]
+            })
+            .collect(),
+    });
+}
+
+fn pct(f: f64) -> String {
+    format!("{} %", plain(Some(f * 100.0), 3))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn plain_trims_and_rounds() {
+        assert_eq!(plain(Some(2.93456), 3), "2.93");
+        assert_eq!(plain(Some(1000.0), 3), "1000");
+        assert_eq!(plain(Some(0.0), 3), "0");
+        assert_eq!(plain(None, 3), "-");
+        assert_eq!(plain(Some(f64::INFINITY), 3), "-");
+        assert_eq!(plain(Some(62.25), 4), "62.25");
+    }
+}
