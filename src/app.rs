@@ -24,9 +24,18 @@ pub struct Outcome {
 
 /// Run a parsed command line. `env_parts` is the `PINLOW_PARTS` path list, `stdout_is_tty` and
 /// `no_color` decide colour under `--color auto`.
-pub fn run(cli: &Cli, env_parts: Option<&std::ffi::OsStr>, stdout_is_tty: bool, no_color: bool) -> Result<Outcome> {
+pub fn run(
+    cli: &Cli,
+    env_parts: Option<&std::ffi::OsStr>,
+    stdout_is_tty: bool,
+    no_color: bool,
+) -> Result<Outcome> {
     let mut paths: Vec<PathBuf> = env_parts
-        .map(|v| std::env::split_paths(v).filter(|p| !p.as_os_str().is_empty()).collect())
+        .map(|v| {
+            std::env::split_paths(v)
+                .filter(|p| !p.as_os_str().is_empty())
+                .collect()
+        })
         .unwrap_or_default();
     paths.extend(cli.parts.iter().cloned());
     let color = match cli.color {
@@ -46,16 +55,25 @@ pub fn run(cli: &Cli, env_parts: Option<&std::ffi::OsStr>, stdout_is_tty: bool, 
                 let part = check_file(f)?;
                 text.push_str(&format!("{}: ok ({})\n", f.display(), part.id));
             }
-            Outcome { stdout: text, code: 0 }
+            Outcome {
+                stdout: text,
+                code: 0,
+            }
         }
         Command::Parts(PartsCommand::List) => {
             let lib = Library::load(&paths)?;
-            Outcome { stdout: parts_view::list(&lib, format), code: 0 }
+            Outcome {
+                stdout: parts_view::list(&lib, format),
+                code: 0,
+            }
         }
         Command::Parts(PartsCommand::Show { id }) => {
             let lib = Library::load(&paths)?;
             let part = lib.require(id, "pinlow parts show")?;
-            Outcome { stdout: parts_view::show(part, format), code: 0 }
+            Outcome {
+                stdout: parts_view::show(part, format),
+                code: 0,
+            }
         }
         Command::Size(args) => {
             if args.base_resistor.is_some() {
@@ -64,7 +82,12 @@ pub fn run(cli: &Cli, env_parts: Option<&std::ffi::OsStr>, stdout_is_tty: bool, 
                 ));
             }
             let lib = Library::load(&paths)?;
-            let stage = resolve_stage(&raw_from_flags(args)?, &RawStage::default(), &Origin::Flags, &lib)?;
+            let stage = resolve_stage(
+                &raw_from_flags(args)?,
+                &RawStage::default(),
+                &Origin::Flags,
+                &lib,
+            )?;
             report_outcome(&audit(None, &[stage]), format, color, cli.strict)
         }
         Command::Audit { board, stage } => {
@@ -85,7 +108,12 @@ pub fn run(cli: &Cli, env_parts: Option<&std::ffi::OsStr>, stdout_is_tty: bool, 
                             "audit needs a board FILE, or stage flags with --base-resistor (use `pinlow size` to size one)".into(),
                         ));
                     }
-                    let s = resolve_stage(&raw_from_flags(stage)?, &RawStage::default(), &Origin::Flags, &lib)?;
+                    let s = resolve_stage(
+                        &raw_from_flags(stage)?,
+                        &RawStage::default(),
+                        &Origin::Flags,
+                        &lib,
+                    )?;
                     audit(None, &[s])
                 }
             };
@@ -93,8 +121,14 @@ pub fn run(cli: &Cli, env_parts: Option<&std::ffi::OsStr>, stdout_is_tty: bool, 
         }
     };
     if let Some(path) = &cli.output {
-        std::fs::write(path, &outcome.stdout).map_err(|source| Error::Io { path: path.clone(), source })?;
-        return Ok(Outcome { stdout: String::new(), code: outcome.code });
+        std::fs::write(path, &outcome.stdout).map_err(|source| Error::Io {
+            path: path.clone(),
+            source,
+        })?;
+        return Ok(Outcome {
+            stdout: String::new(),
+            code: outcome.code,
+        });
     }
     Ok(outcome)
 }
@@ -109,12 +143,18 @@ pub fn exit_code(report: &Report, strict: bool) -> u8 {
 }
 
 fn report_outcome(report: &Report, format: Format, color: bool, strict: bool) -> Outcome {
-    Outcome { stdout: render(report, format, color), code: exit_code(report, strict) }
+    Outcome {
+        stdout: render(report, format, color),
+        code: exit_code(report, strict),
+    }
 }
 
 /// Decide colour for `--color auto` from the real terminal and environment.
 pub fn terminal_facts() -> (bool, bool) {
-    (std::io::stdout().is_terminal(), std::env::var_os("NO_COLOR").is_some_and(|v| !v.is_empty()))
+    (
+        std::io::stdout().is_terminal(),
+        std::env::var_os("NO_COLOR").is_some_and(|v| !v.is_empty()),
+    )
 }
 
 /// Turn the stage flags into the same raw form a board file has, refusing flags that do not
@@ -123,7 +163,9 @@ pub fn raw_from_flags(a: &StageArgs) -> Result<RawStage> {
     let load = match a.load {
         None => {
             if let Some(flag) = first_set(&load_flags(a)) {
-                return Err(Error::Usage(format!("{flag} needs --load to say which load it belongs to")));
+                return Err(Error::Usage(format!(
+                    "{flag} needs --load to say which load it belongs to"
+                )));
             }
             None
         }
@@ -132,13 +174,17 @@ pub fn raw_from_flags(a: &StageArgs) -> Result<RawStage> {
     let clamp = match a.clamp {
         None => {
             if let Some(flag) = first_set(&clamp_flags(a)) {
-                return Err(Error::Usage(format!("{flag} needs --clamp diode or --clamp zener")));
+                return Err(Error::Usage(format!(
+                    "{flag} needs --clamp diode or --clamp zener"
+                )));
             }
             None
         }
         Some(ClampArg::None) => {
             if let Some(flag) = first_set(&clamp_flags(a)) {
-                return Err(Error::Usage(format!("{flag} does not apply to --clamp none")));
+                return Err(Error::Usage(format!(
+                    "{flag} does not apply to --clamp none"
+                )));
             }
             Some(RawClamp::None)
         }
@@ -146,10 +192,16 @@ pub fn raw_from_flags(a: &StageArgs) -> Result<RawStage> {
             if a.zener.is_some() {
                 return Err(Error::Usage("--zener needs --clamp zener".into()));
             }
-            Some(RawClamp::Diode { forward_v: a.clamp_forward, reverse_v: a.clamp_reverse, current_a: a.clamp_current })
+            Some(RawClamp::Diode {
+                forward_v: a.clamp_forward,
+                reverse_v: a.clamp_reverse,
+                current_a: a.clamp_current,
+            })
         }
         Some(ClampArg::Zener) => Some(RawClamp::Zener {
-            zener_v: a.zener.ok_or_else(|| Error::invalid("--zener", "missing (the Zener voltage of a zener clamp)"))?,
+            zener_v: a.zener.ok_or_else(|| {
+                Error::invalid("--zener", "missing (the Zener voltage of a zener clamp)")
+            })?,
             forward_v: a.clamp_forward,
             reverse_v: a.clamp_reverse,
             current_a: a.clamp_current,
@@ -168,7 +220,11 @@ pub fn raw_from_flags(a: &StageArgs) -> Result<RawStage> {
         load,
         clamp,
         base_resistor_ohms: a.base_resistor,
-        pull_down_ohms: if a.no_pull_down { Some(None) } else { a.pull_down.map(Some) },
+        pull_down_ohms: if a.no_pull_down {
+            Some(None)
+        } else {
+            a.pull_down.map(Some)
+        },
         resistor_tolerance: a.resistor_tolerance,
         resistor_rating_w: a.resistor_rating,
         series: a.series,
@@ -195,7 +251,10 @@ fn load_flags(a: &StageArgs) -> Vec<(&'static str, bool)> {
         ("--led-max-current", a.led_max_current.is_some()),
         ("--led-resistor", a.led_resistor.is_some()),
         ("--strip-voltage", a.strip_voltage.is_some()),
-        ("--strip-current-per-metre", a.strip_current_per_metre.is_some()),
+        (
+            "--strip-current-per-metre",
+            a.strip_current_per_metre.is_some(),
+        ),
         ("--strip-length", a.strip_length.is_some()),
     ]
 }
@@ -212,20 +271,52 @@ fn clamp_flags(a: &StageArgs) -> Vec<(&'static str, bool)> {
 fn load_from_flags(a: &StageArgs, kind: LoadArg) -> Result<RawLoad> {
     let (name, allowed): (&str, &[&str]) = match kind {
         LoadArg::Current => ("current", &["--current"]),
-        LoadArg::Relay => ("relay", &["--coil", "--coil-tolerance", "--coil-rated", "--must-operate", "--inductance"]),
-        LoadArg::Led => ("led", &["--led-count", "--led-vf", "--led-vf-min", "--led-vf-max", "--led-max-current", "--led-resistor", "--current"]),
-        LoadArg::Strip => ("strip", &["--strip-voltage", "--strip-current-per-metre", "--strip-length"]),
+        LoadArg::Relay => (
+            "relay",
+            &[
+                "--coil",
+                "--coil-tolerance",
+                "--coil-rated",
+                "--must-operate",
+                "--inductance",
+            ],
+        ),
+        LoadArg::Led => (
+            "led",
+            &[
+                "--led-count",
+                "--led-vf",
+                "--led-vf-min",
+                "--led-vf-max",
+                "--led-max-current",
+                "--led-resistor",
+                "--current",
+            ],
+        ),
+        LoadArg::Strip => (
+            "strip",
+            &[
+                "--strip-voltage",
+                "--strip-current-per-metre",
+                "--strip-length",
+            ],
+        ),
     };
     for (flag, set) in load_flags(a) {
         if set && !allowed.contains(&flag) {
-            return Err(Error::Usage(format!("{flag} does not apply to --load {name}; it takes {}", allowed.join(", "))));
+            return Err(Error::Usage(format!(
+                "{flag} does not apply to --load {name}; it takes {}",
+                allowed.join(", ")
+            )));
         }
     }
     let need = |v: Option<f64>, flag: &str, what: &str| -> Result<f64> {
         v.ok_or_else(|| Error::invalid(flag, format!("missing ({what}) for --load {name}")))
     };
     Ok(match kind {
-        LoadArg::Current => RawLoad::Current { current_a: need(a.current, "--current", "the load current")? },
+        LoadArg::Current => RawLoad::Current {
+            current_a: need(a.current, "--current", "the load current")?,
+        },
         LoadArg::Relay => RawLoad::Relay {
             coil_ohms: need(a.coil, "--coil", "the coil resistance at 20 °C")?,
             coil_tolerance: a.coil_tolerance,
@@ -236,7 +327,10 @@ fn load_from_flags(a: &StageArgs, kind: LoadArg) -> Result<RawLoad> {
         LoadArg::Led => {
             let n = need(a.led_count, "--led-count", "how many LEDs in series")?;
             if n.fract() != 0.0 || !(1.0..=1000.0).contains(&n) {
-                return Err(Error::invalid("--led-count", format!("{n} is not allowed: a whole number from 1 to 1000 is needed")));
+                return Err(Error::invalid(
+                    "--led-count",
+                    format!("{n} is not allowed: a whole number from 1 to 1000 is needed"),
+                ));
             }
             RawLoad::Led {
                 count: n as u32,
@@ -249,8 +343,16 @@ fn load_from_flags(a: &StageArgs, kind: LoadArg) -> Result<RawLoad> {
             }
         }
         LoadArg::Strip => RawLoad::Strip {
-            rated_v: need(a.strip_voltage, "--strip-voltage", "the strip's rated voltage")?,
-            current_per_m_a: need(a.strip_current_per_metre, "--strip-current-per-metre", "current per metre")?,
+            rated_v: need(
+                a.strip_voltage,
+                "--strip-voltage",
+                "the strip's rated voltage",
+            )?,
+            current_per_m_a: need(
+                a.strip_current_per_metre,
+                "--strip-current-per-metre",
+                "current per metre",
+            )?,
             length_m: need(a.strip_length, "--strip-length", "segment length")?,
         },
     })

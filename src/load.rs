@@ -230,8 +230,16 @@ mod tests {
             must_operate_fraction: 0.75,
             inductance: None,
         };
-        assert_relative_eq!(relay.coil_at(celsius(25.0)).base(), 320.0, max_relative = 1e-9);
-        assert_relative_eq!(relay.coil_at(celsius(125.0)).base(), 443.0, max_relative = 0.002);
+        assert_relative_eq!(
+            relay.coil_at(celsius(25.0)).base(),
+            320.0,
+            max_relative = 1e-9
+        );
+        assert_relative_eq!(
+            relay.coil_at(celsius(125.0)).base(),
+            443.0,
+            max_relative = 0.002
+        );
     }
 
     #[test]

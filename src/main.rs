@@ -10,10 +10,19 @@ use pinlow::cli::Cli;
 fn main() -> ExitCode {
     let cli = Cli::parse();
     let (tty, no_color) = terminal_facts();
-    match run(&cli, std::env::var_os("PINLOW_PARTS").as_deref(), tty, no_color) {
+    match run(
+        &cli,
+        std::env::var_os("PINLOW_PARTS").as_deref(),
+        tty,
+        no_color,
+    ) {
         Ok(outcome) => {
             let mut out = std::io::stdout().lock();
-            if out.write_all(outcome.stdout.as_bytes()).and_then(|_| out.flush()).is_err() {
+            if out
+                .write_all(outcome.stdout.as_bytes())
+                .and_then(|_| out.flush())
+                .is_err()
+            {
                 return ExitCode::from(2);
             }
             ExitCode::from(outcome.code)

@@ -209,7 +209,7 @@ fn rkm_letter(s: &str, kind: ValueKind) -> Option<(usize, i32)> {
 fn match_unit(s: &str, kind: ValueKind, bare_prefix: bool) -> Option<(i32, usize)> {
     let mut best: Option<(i32, usize)> = None;
     let mut consider = |exp: i32, len: usize| {
-        if best.map_or(true, |(_, l)| len > l) {
+        if best.is_none_or(|(_, l)| len > l) {
             best = Some((exp, len));
         }
     };

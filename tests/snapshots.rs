@@ -22,7 +22,10 @@ fn boards_in_every_format() {
                 "--color",
                 "never",
             ]);
-            assert!(code == 0 || code == 1, "{file} {format}: exit {code}: {err}");
+            assert!(
+                code == 0 || code == 1,
+                "{file} {format}: exit {code}: {err}"
+            );
             assert!(err.is_empty(), "{file} {format}: stderr {err}");
             insta::assert_snapshot!(format!("audit-{format}"), out);
         }
@@ -38,7 +41,10 @@ fn board_errors() {
         let file = rel.to_string_lossy().into_owned();
         let (code, out, err) = run(&["audit", &file]);
         assert_eq!(code, 2, "{file}: {err}");
-        assert!(out.is_empty(), "nothing printed as if it were a result: {out}");
+        assert!(
+            out.is_empty(),
+            "nothing printed as if it were a result: {out}"
+        );
         insta::assert_snapshot!(err);
     });
 }
@@ -60,21 +66,228 @@ fn part_file_errors() {
 
 /// Flag errors: each is (name, arguments).
 const FLAG_ERRORS: &[(&str, &[&str])] = &[
-    ("bad-unit", &["size", "--supply", "12mA", "--logic-high", "3V3", "--part", "demo-npn-40v", "--load", "current", "--current", "50mA"]),
-    ("trailing-junk", &["size", "--supply", "12Vx", "--logic-high", "3V3", "--part", "demo-npn-40v", "--load", "current", "--current", "50mA"]),
-    ("nan", &["size", "--supply", "NaN", "--logic-high", "3V3", "--part", "demo-npn-40v", "--load", "current", "--current", "50mA"]),
-    ("missing-part", &["size", "--supply", "12V", "--logic-high", "3V3", "--load", "current", "--current", "50mA"]),
-    ("unknown-part", &["size", "--supply", "12V", "--logic-high", "3V3", "--part", "X9", "--load", "current", "--current", "50mA"]),
-    ("flag-of-other-load", &["size", "--supply", "12V", "--logic-high", "3V3", "--part", "demo-npn-40v", "--load", "current", "--current", "50mA", "--coil", "400"]),
-    ("missing-load-value", &["size", "--supply", "12V", "--logic-high", "3V3", "--part", "demo-npn-40v", "--load", "relay"]),
-    ("negative-current", &["size", "--supply", "12V", "--logic-high", "3V3", "--part", "demo-npn-40v", "--load", "current", "--current", "-5mA"]),
-    ("tolerance-one", &["size", "--supply", "12V", "--supply-tolerance", "100%", "--logic-high", "3V3", "--part", "demo-npn-40v", "--load", "current", "--current", "5mA"]),
-    ("ambient-reversed", &["size", "--supply", "12V", "--ambient", "85..-40", "--logic-high", "3V3", "--part", "demo-npn-40v", "--load", "current", "--current", "5mA"]),
-    ("audit-without-resistor", &["audit", "--supply", "12V", "--logic-high", "3V3", "--part", "demo-npn-40v", "--load", "current", "--current", "5mA"]),
-    ("size-with-resistor", &["size", "--supply", "12V", "--logic-high", "3V3", "--part", "demo-npn-40v", "--load", "current", "--current", "5mA", "--base-resistor", "1k"]),
-    ("board-and-flags", &["audit", "examples/greenhouse.json", "--supply", "5V"]),
-    ("missing-board-file", &["audit", "tests/fixtures/no-such-board.json"]),
-    ("zener-without-voltage", &["size", "--supply", "12V", "--logic-high", "3V3", "--part", "demo-npn-40v", "--load", "relay", "--coil", "400", "--clamp", "zener"]),
+    (
+        "bad-unit",
+        &[
+            "size",
+            "--supply",
+            "12mA",
+            "--logic-high",
+            "3V3",
+            "--part",
+            "demo-npn-40v",
+            "--load",
+            "current",
+            "--current",
+            "50mA",
+        ],
+    ),
+    (
+        "trailing-junk",
+        &[
+            "size",
+            "--supply",
+            "12Vx",
+            "--logic-high",
+            "3V3",
+            "--part",
+            "demo-npn-40v",
+            "--load",
+            "current",
+            "--current",
+            "50mA",
+        ],
+    ),
+    (
+        "nan",
+        &[
+            "size",
+            "--supply",
+            "NaN",
+            "--logic-high",
+            "3V3",
+            "--part",
+            "demo-npn-40v",
+            "--load",
+            "current",
+            "--current",
+            "50mA",
+        ],
+    ),
+    (
+        "missing-part",
+        &[
+            "size",
+            "--supply",
+            "12V",
+            "--logic-high",
+            "3V3",
+            "--load",
+            "current",
+            "--current",
+            "50mA",
+        ],
+    ),
+    (
+        "unknown-part",
+        &[
+            "size",
+            "--supply",
+            "12V",
+            "--logic-high",
+            "3V3",
+            "--part",
+            "X9",
+            "--load",
+            "current",
+            "--current",
+            "50mA",
+        ],
+    ),
+    (
+        "flag-of-other-load",
+        &[
+            "size",
+            "--supply",
+            "12V",
+            "--logic-high",
+            "3V3",
+            "--part",
+            "demo-npn-40v",
+            "--load",
+            "current",
+            "--current",
+            "50mA",
+            "--coil",
+            "400",
+        ],
+    ),
+    (
+        "missing-load-value",
+        &[
+            "size",
+            "--supply",
+            "12V",
+            "--logic-high",
+            "3V3",
+            "--part",
+            "demo-npn-40v",
+            "--load",
+            "relay",
+        ],
+    ),
+    (
+        "negative-current",
+        &[
+            "size",
+            "--supply",
+            "12V",
+            "--logic-high",
+            "3V3",
+            "--part",
+            "demo-npn-40v",
+            "--load",
+            "current",
+            "--current",
+            "-5mA",
+        ],
+    ),
+    (
+        "tolerance-one",
+        &[
+            "size",
+            "--supply",
+            "12V",
+            "--supply-tolerance",
+            "100%",
+            "--logic-high",
+            "3V3",
+            "--part",
+            "demo-npn-40v",
+            "--load",
+            "current",
+            "--current",
+            "5mA",
+        ],
+    ),
+    (
+        "ambient-reversed",
+        &[
+            "size",
+            "--supply",
+            "12V",
+            "--ambient",
+            "85..-40",
+            "--logic-high",
+            "3V3",
+            "--part",
+            "demo-npn-40v",
+            "--load",
+            "current",
+            "--current",
+            "5mA",
+        ],
+    ),
+    (
+        "audit-without-resistor",
+        &[
+            "audit",
+            "--supply",
+            "12V",
+            "--logic-high",
+            "3V3",
+            "--part",
+            "demo-npn-40v",
+            "--load",
+            "current",
+            "--current",
+            "5mA",
+        ],
+    ),
+    (
+        "size-with-resistor",
+        &[
+            "size",
+            "--supply",
+            "12V",
+            "--logic-high",
+            "3V3",
+            "--part",
+            "demo-npn-40v",
+            "--load",
+            "current",
+            "--current",
+            "5mA",
+            "--base-resistor",
+            "1k",
+        ],
+    ),
+    (
+        "board-and-flags",
+        &["audit", "examples/greenhouse.json", "--supply", "5V"],
+    ),
+    (
+        "missing-board-file",
+        &["audit", "tests/fixtures/no-such-board.json"],
+    ),
+    (
+        "zener-without-voltage",
+        &[
+            "size",
+            "--supply",
+            "12V",
+            "--logic-high",
+            "3V3",
+            "--part",
+            "demo-npn-40v",
+            "--load",
+            "relay",
+            "--coil",
+            "400",
+            "--clamp",
+            "zener",
+        ],
+    ),
 ];
 
 #[test]

@@ -129,7 +129,14 @@ fn pinned_low(input: &CheckInput) -> Finding {
             ),
         )
     };
-    finding(CheckId::PinnedLow, status, Some(od.max(0.0)), Some(k), "", detail)
+    finding(
+        CheckId::PinnedLow,
+        status,
+        Some(od.max(0.0)),
+        Some(k),
+        "",
+        detail,
+    )
 }
 
 fn pin_current(input: &CheckInput) -> Finding {
@@ -138,7 +145,11 @@ fn pin_current(input: &CheckInput) -> Finding {
     let (status, detail) = if i <= limit {
         (
             Status::Pass,
-            format!("the pin sources at most {} of its {} limit", fe(i, "A"), fe(limit, "A")),
+            format!(
+                "the pin sources at most {} of its {} limit",
+                fe(i, "A"),
+                fe(limit, "A")
+            ),
         )
     } else {
         let gain = match input.gain_needed_within_pin_limit {
@@ -154,7 +165,14 @@ fn pin_current(input: &CheckInput) -> Finding {
             ),
         )
     };
-    finding(CheckId::PinCurrent, status, Some(i), Some(limit), "A", detail)
+    finding(
+        CheckId::PinCurrent,
+        status,
+        Some(i),
+        Some(limit),
+        "A",
+        detail,
+    )
 }
 
 fn stays_off(input: &CheckInput) -> Finding {
@@ -217,7 +235,14 @@ fn collector_current(input: &CheckInput) -> Finding {
         fe(i, "A"),
         fe(rated, "A")
     );
-    finding(CheckId::CollectorCurrent, status, Some(i), Some(pass), "A", detail)
+    finding(
+        CheckId::CollectorCurrent,
+        status,
+        Some(i),
+        Some(pass),
+        "A",
+        detail,
+    )
 }
 
 fn collector_voltage(input: &CheckInput) -> Finding {
@@ -245,7 +270,14 @@ fn collector_voltage(input: &CheckInput) -> Finding {
         fe(peak, "V"),
         fe(vceo, "V")
     );
-    finding(CheckId::CollectorVoltage, status, Some(peak), Some(pass), "V", detail)
+    finding(
+        CheckId::CollectorVoltage,
+        status,
+        Some(peak),
+        Some(pass),
+        "V",
+        detail,
+    )
 }
 
 fn junction_temp(input: &CheckInput) -> Finding {
@@ -266,7 +298,14 @@ fn junction_temp(input: &CheckInput) -> Finding {
         tj,
         tj_max
     );
-    finding(CheckId::JunctionTemp, status, Some(tj), Some(pass), "°C", detail)
+    finding(
+        CheckId::JunctionTemp,
+        status,
+        Some(tj),
+        Some(pass),
+        "°C",
+        detail,
+    )
 }
 
 fn coil_pull_in(input: &CheckInput, relay: &Relay) -> Finding {
@@ -285,7 +324,14 @@ fn coil_pull_in(input: &CheckInput, relay: &Relay) -> Finding {
         fmt_c(stage.ambient_max.base()),
         fe(needed, "V")
     );
-    finding(CheckId::CoilPullIn, status, Some(available), Some(needed), "V", detail)
+    finding(
+        CheckId::CoilPullIn,
+        status,
+        Some(available),
+        Some(needed),
+        "V",
+        detail,
+    )
 }
 
 fn clamp_rating(input: &CheckInput) -> Option<Finding> {
@@ -316,21 +362,37 @@ fn clamp_rating(input: &CheckInput) -> Option<Finding> {
         }
         None => {
             let c = current.map(|c| c.base()).unwrap_or(0.0);
-            let status = if current_ok { Status::Pass } else { Status::Fail };
-            let detail = format!(
-                "no reverse rating given{}",
-                current_phrase(Some(c), ic_max)
-            );
+            let status = if current_ok {
+                Status::Pass
+            } else {
+                Status::Fail
+            };
+            let detail = format!("no reverse rating given{}", current_phrase(Some(c), ic_max));
             (status, c, ic_max, "A", detail)
         }
     };
-    Some(finding(CheckId::ClampRating, status, Some(value), Some(limit), unit, detail))
+    Some(finding(
+        CheckId::ClampRating,
+        status,
+        Some(value),
+        Some(limit),
+        unit,
+        detail,
+    ))
 }
 
 fn current_phrase(current: Option<f64>, ic_max: f64) -> String {
     match current {
-        Some(c) if c >= ic_max => format!("; current rating {} covers the coil's {}", fe(c, "A"), fe(ic_max, "A")),
-        Some(c) => format!("; current rating {} is below the coil's {}", fe(c, "A"), fe(ic_max, "A")),
+        Some(c) if c >= ic_max => format!(
+            "; current rating {} covers the coil's {}",
+            fe(c, "A"),
+            fe(ic_max, "A")
+        ),
+        Some(c) => format!(
+            "; current rating {} is below the coil's {}",
+            fe(c, "A"),
+            fe(ic_max, "A")
+        ),
         None => String::new(),
     }
 }
@@ -396,7 +458,14 @@ fn led_current(input: &CheckInput, led: &Led) -> Finding {
             fe(target, "A")
         ),
     };
-    finding(CheckId::LedCurrent, status, Some(min), Some(pass_min), "A", detail)
+    finding(
+        CheckId::LedCurrent,
+        status,
+        Some(min),
+        Some(pass_min),
+        "A",
+        detail,
+    )
 }
 
 fn resistor_power(input: &CheckInput) -> Finding {

@@ -3,9 +3,7 @@
 
 use super::temperature::{gain_factor, icbo_at, turn_on_edge, vbe_at};
 use crate::load::Load;
-use crate::quantity::{
-    amps, watts, Base, Current, Power, Resistance, Temperature, Voltage,
-};
+use crate::quantity::{amps, watts, Base, Current, Power, Resistance, Temperature, Voltage};
 use crate::stage::Stage;
 
 /// The resistor values a stage is evaluated with (given or sized).
@@ -49,8 +47,8 @@ impl LoadCorner {
             rl,
         );
         let part = &stage.part;
-        let gain_min = part.gain_min_at(ic_max)
-            * gain_factor(stage.ambient_min, part.gain_temp_exponent);
+        let gain_min =
+            part.gain_min_at(ic_max) * gain_factor(stage.ambient_min, part.gain_temp_exponent);
         let (vbe_min, vbe_max) = part.vbe_sat_at(ic_max);
         LoadCorner {
             vcc_max,
@@ -65,7 +63,12 @@ impl LoadCorner {
 
     /// IB,min at Ta,min for these resistors: (VOH,min - VBE(sat),max) / RB+ minus
     /// VBE(sat),max / RBE-. May be zero or negative: the stage cannot turn on.
-    pub fn base_current_min(&self, stage: &Stage, rb: Resistance, rbe: Option<Resistance>) -> Current {
+    pub fn base_current_min(
+        &self,
+        stage: &Stage,
+        rb: Resistance,
+        rbe: Option<Resistance>,
+    ) -> Current {
         let tol = stage.resistor_tolerance;
         let through_rb = (stage.logic_high_min - self.vbe_sat_max_cold) / (rb * (1.0 + tol));
         let stolen = match rbe {
@@ -162,9 +165,9 @@ impl WorstCase {
             (Load::Relay(_), None) => None,
             _ => Some(load.vcc_max),
         };
-        let leakage_voltage = resistors.rbe.map(|r| {
-            icbo_at(stage.part.icbo_max, stage.ambient_max) * (r * (1.0 + tol))
-        });
+        let leakage_voltage = resistors
+            .rbe
+            .map(|r| icbo_at(stage.part.icbo_max, stage.ambient_max) * (r * (1.0 + tol)));
         let led = match (&stage.load, resistors.rl) {
             (Load::Led(l), Some(rl)) => {
                 let max = (load.vcc_max - l.drop_min()) / (rl * (1.0 - tol));
@@ -206,4 +209,3 @@ impl WorstCase {
         }
     }
 }
-

@@ -153,3 +153,6 @@ pub fn audit(board: Option<String>, stages: &[Stage]) -> crate::report::Report {
         .collect();
     crate::report::Report::new(board, reports)
 }
+
+#[cfg(test)]
+mod tests;

@@ -4,9 +4,7 @@
 use super::corners::LoadCorner;
 use super::temperature::gain_factor;
 use crate::load::{Led, Load};
-use crate::quantity::{
-    ohms, watts, Base, Current, Energy, Power, Resistance, Time, Voltage,
-};
+use crate::quantity::{ohms, watts, Base, Current, Energy, Power, Resistance, Time, Voltage};
 use crate::stage::{PullDown, Stage};
 
 /// Standard resistor power ratings, W [practice: the usual catalogue steps].
@@ -87,7 +85,9 @@ pub fn size_base_resistor(stage: &Stage, corner: &LoadCorner) -> BaseSizing {
 /// limit allows; `None` when no base current flows at all.
 pub fn gain_needed_within_pin_limit(stage: &Stage, corner: &LoadCorner) -> Option<f64> {
     let rb = pin_limited_base_resistor(stage, corner);
-    let ib = corner.base_current_min(stage, rb, pull_down_for(stage, rb)).base();
+    let ib = corner
+        .base_current_min(stage, rb, pull_down_for(stage, rb))
+        .base();
     if ib <= 0.0 {
         return None;
     }
@@ -156,4 +156,3 @@ pub fn propose_clamp(stage: &Stage, corner: &LoadCorner) -> Option<ClampProposal
         decay_time_constant,
     })
 }
-

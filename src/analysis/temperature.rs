@@ -44,7 +44,11 @@ mod tests {
     fn gain_falls_when_cold() {
         // Gummel-Poon XTB = 1.5 (typical silicon, from memory): at -40 C the factor is
         // (233.15 / 298.15)^1.5 = 0.6915.
-        assert_relative_eq!(gain_factor(celsius(-40.0), 1.5), 0.6915, max_relative = 1e-3);
+        assert_relative_eq!(
+            gain_factor(celsius(-40.0), 1.5),
+            0.6915,
+            max_relative = 1e-3
+        );
         assert_relative_eq!(gain_factor(celsius(25.0), 1.5), 1.0);
     }
 
@@ -52,9 +56,17 @@ mod tests {
     fn vbe_rises_two_millivolts_per_kelvin_colder() {
         // Common practice / textbook: VBE falls about 2 mV per kelvin; 0.7 V at 25 C is 0.83 V
         // at -40 C.
-        assert_relative_eq!(vbe_at(volts(0.7), celsius(-40.0)).base(), 0.83, max_relative = 1e-12);
+        assert_relative_eq!(
+            vbe_at(volts(0.7), celsius(-40.0)).base(),
+            0.83,
+            max_relative = 1e-12
+        );
         // Cutoff edge about 0.5 V at 25 C (common practice), 0.38 V at 85 C.
-        assert_relative_eq!(turn_on_edge(celsius(85.0)).base(), 0.38, max_relative = 1e-12);
+        assert_relative_eq!(
+            turn_on_edge(celsius(85.0)).base(),
+            0.38,
+            max_relative = 1e-12
+        );
     }
 
     #[test]

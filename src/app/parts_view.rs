@@ -11,7 +11,13 @@ use crate::report::Format;
 /// The table of every part (or JSON / Markdown).
 pub fn list(lib: &Library, format: Format) -> String {
     let headers = [
-        "ID", "Polarity", "Package", "VCEO [V]", "IC max [A]", "Min gain @ IC", "Provenance",
+        "ID",
+        "Polarity",
+        "Package",
+        "VCEO [V]",
+        "IC max [A]",
+        "Min gain @ IC",
+        "Provenance",
     ];
     let rows: Vec<Vec<String>> = lib
         .iter()
@@ -46,10 +52,17 @@ pub fn list(lib: &Library, format: Format) -> String {
                     })
                 })
                 .collect();
-            format!("{}\n", serde_json::to_string_pretty(&items).unwrap_or_default())
+            format!(
+                "{}\n",
+                serde_json::to_string_pretty(&items).unwrap_or_default()
+            )
         }
         Format::Markdown => {
-            let mut out = format!("| {} |\n|{}\n", headers.join(" | "), " --- |".repeat(headers.len()));
+            let mut out = format!(
+                "| {} |\n|{}\n",
+                headers.join(" | "),
+                " --- |".repeat(headers.len())
+            );
             for r in rows {
                 out.push_str(&format!("| {} |\n", r.join(" | ").replace('\n', " ")));
             }
@@ -81,25 +94,72 @@ pub fn show(p: &Part, format: Format) -> String {
         ("IC max", fe(p.ic_max.base(), "A")),
         ("Tj max", format!("{} °C", trim(p.tj_max.base()))),
         ("RthJA", format!("{} K/W", trim(p.r_th_ja.base()))),
-        ("ICBO max (25 °C)", format!("{}{}", fe(p.icbo_max.base(), "A"), if p.icbo_assumed { " (assumed)" } else { "" })),
-        ("gain temperature exponent", format!("{}{}", trim(p.gain_temp_exponent), if p.gain_temp_exponent_assumed { " (assumed)" } else { "" })),
+        (
+            "ICBO max (25 °C)",
+            format!(
+                "{}{}",
+                fe(p.icbo_max.base(), "A"),
+                if p.icbo_assumed { " (assumed)" } else { "" }
+            ),
+        ),
+        (
+            "gain temperature exponent",
+            format!(
+                "{}{}",
+                trim(p.gain_temp_exponent),
+                if p.gain_temp_exponent_assumed {
+                    " (assumed)"
+                } else {
+                    ""
+                }
+            ),
+        ),
     ];
     for g in &p.gain_min {
-        lines.push(("hFE min", format!("{} at {}", trim(g.hfe), fe(g.ic.base(), "A"))));
+        lines.push((
+            "hFE min",
+            format!("{} at {}", trim(g.hfe), fe(g.ic.base(), "A")),
+        ));
     }
     for g in p.gain_max.iter().flatten() {
-        lines.push(("hFE max", format!("{} at {}", trim(g.hfe), fe(g.ic.base(), "A"))));
+        lines.push((
+            "hFE max",
+            format!("{} at {}", trim(g.hfe), fe(g.ic.base(), "A")),
+        ));
     }
     for v in &p.vce_sat_max {
-        lines.push(("VCE(sat) max", format!("{} at IC {}, IB {}", fe(v.v.base(), "V"), fe(v.ic.base(), "A"), fe(v.ib.base(), "A"))));
+        lines.push((
+            "VCE(sat) max",
+            format!(
+                "{} at IC {}, IB {}",
+                fe(v.v.base(), "V"),
+                fe(v.ic.base(), "A"),
+                fe(v.ib.base(), "A")
+            ),
+        ));
     }
     for v in &p.vbe_sat {
-        lines.push(("VBE(sat)", format!("{} .. {} at IC {}, IB {}", fe(v.min.base(), "V"), fe(v.max.base(), "V"), fe(v.ic.base(), "A"), fe(v.ib.base(), "A"))));
+        lines.push((
+            "VBE(sat)",
+            format!(
+                "{} .. {} at IC {}, IB {}",
+                fe(v.min.base(), "V"),
+                fe(v.max.base(), "V"),
+                fe(v.ic.base(), "A"),
+                fe(v.ib.base(), "A")
+            ),
+        ));
     }
     match format {
         Format::Json => {
-            let map: Vec<_> = lines.iter().map(|(k, v)| json!({"field": k, "value": v})).collect();
-            format!("{}\n", serde_json::to_string_pretty(&map).unwrap_or_default())
+            let map: Vec<_> = lines
+                .iter()
+                .map(|(k, v)| json!({"field": k, "value": v}))
+                .collect();
+            format!(
+                "{}\n",
+                serde_json::to_string_pretty(&map).unwrap_or_default()
+            )
         }
         Format::Markdown => {
             let mut out = "| Field | Value |\n| --- | --- |\n".to_string();

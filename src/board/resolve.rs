@@ -2,8 +2,8 @@
 //! typed [`Stage`], validating every value where it stands and listing each default taken.
 
 use super::raw::{Grade, RawClamp, RawLoad, RawStage};
-use crate::eseries::Series;
 use crate::error::{Error, Result};
+use crate::eseries::Series;
 use crate::load::{Clamp, Led, Load, Relay, Strip};
 use crate::parts::Library;
 use crate::quantity::{amps, celsius, format_engineering as fe, henries, ohms, volts, watts};
@@ -81,7 +81,11 @@ impl Resolver<'_> {
     }
 
     /// Own value, else the default's, with its place.
-    fn pick<T: Clone>(&self, key: &str, get: impl Fn(&RawStage) -> Option<T>) -> Option<(T, String)> {
+    fn pick<T: Clone>(
+        &self,
+        key: &str,
+        get: impl Fn(&RawStage) -> Option<T>,
+    ) -> Option<(T, String)> {
         if let Some(v) = get(self.own) {
             return Some((v, self.place(key, false)));
         }
@@ -94,7 +98,9 @@ impl Resolver<'_> {
             Origin::Flags => flag_for(key).to_string(),
         };
         let hint = match self.origin {
-            Origin::File { .. } => format!("missing `{key}` ({what}); give it in the stage or in `defaults`"),
+            Origin::File { .. } => {
+                format!("missing `{key}` ({what}); give it in the stage or in `defaults`")
+            }
             Origin::Flags => format!("missing ({what})"),
         };
         Error::invalid(place, hint)
@@ -109,7 +115,12 @@ impl Resolver<'_> {
         }
         let name = match (&self.own.name, self.origin) {
             (Some(n), _) if !n.trim().is_empty() => n.clone(),
-            (Some(_), _) => return Err(Error::invalid(self.place("name", false), "must not be empty")),
+            (Some(_), _) => {
+                return Err(Error::invalid(
+                    self.place("name", false),
+                    "must not be empty",
+                ))
+            }
             (None, Origin::File { .. }) => return Err(self.missing("name", "the stage's name")),
             (None, Origin::Flags) => "stage".to_string(),
         };
@@ -125,7 +136,10 @@ impl Resolver<'_> {
         let supply_tolerance = match self.pick("supply_tolerance", |r| r.supply_tolerance) {
             Some((v, at)) => fraction(v, &at)?,
             None => {
-                self.assume(format!("supply tolerance ±{} assumed [practice]", pct(DEFAULT_SUPPLY_TOLERANCE)));
+                self.assume(format!(
+                    "supply tolerance ±{} assumed [practice]",
+                    pct(DEFAULT_SUPPLY_TOLERANCE)
+                ));
                 DEFAULT_SUPPLY_TOLERANCE
             }
         };
@@ -156,7 +170,10 @@ impl Resolver<'_> {
         let pin_limit = match self.pick("pin_limit_a", |r| r.pin_limit_a) {
             Some((v, at)) => positive(v, &at)?,
             None => {
-                self.assume(format!("pin limit {} assumed [practice, conservative]", fe(DEFAULT_PIN_LIMIT_A, "A")));
+                self.assume(format!(
+                    "pin limit {} assumed [practice, conservative]",
+                    fe(DEFAULT_PIN_LIMIT_A, "A")
+                ));
                 DEFAULT_PIN_LIMIT_A
             }
         };
@@ -179,12 +196,15 @@ impl Resolver<'_> {
         let resistor_tolerance = match self.pick("resistor_tolerance", |r| r.resistor_tolerance) {
             Some((v, at)) => fraction(v, &at)?,
             None => {
-                self.assume(format!("resistor tolerance ±{} assumed [practice]", pct(DEFAULT_RESISTOR_TOLERANCE)));
+                self.assume(format!(
+                    "resistor tolerance ±{} assumed [practice]",
+                    pct(DEFAULT_RESISTOR_TOLERANCE)
+                ));
                 DEFAULT_RESISTOR_TOLERANCE
             }
         };
-        let sizes_something = base_resistor.is_none()
-            || matches!(&load, Load::Led(Led { resistor: None, .. }));
+        let sizes_something =
+            base_resistor.is_none() || matches!(&load, Load::Led(Led { resistor: None, .. }));
         let series = match self.pick("series", |r| r.series) {
             Some((s, _)) => s,
             None => {
@@ -214,10 +234,16 @@ impl Resolver<'_> {
             }
         };
         if part.gain_temp_exponent_assumed {
-            self.assume(format!("part {}: gain temperature exponent XTB 1.5 assumed [text, memory]", part.id));
+            self.assume(format!(
+                "part {}: gain temperature exponent XTB 1.5 assumed [text, memory]",
+                part.id
+            ));
         }
         if part.icbo_assumed {
-            self.assume(format!("part {}: ICBO 50 nA at 25 °C assumed [memory]", part.id));
+            self.assume(format!(
+                "part {}: ICBO 50 nA at 25 °C assumed [memory]",
+                part.id
+            ));
         }
         Ok(Stage {
             name,
@@ -276,7 +302,9 @@ impl Resolver<'_> {
             }
         }
         let (lo, hi) = Grade::Commercial.range_c();
-        self.assume(format!("ambient {lo} .. {hi} °C assumed (commercial grade) [practice]"));
+        self.assume(format!(
+            "ambient {lo} .. {hi} °C assumed (commercial grade) [practice]"
+        ));
         Ok((lo, hi))
     }
 
@@ -286,19 +314,31 @@ impl Resolver<'_> {
             RawLoad::Current { current_a } => Load::Current {
                 current: amps(positive(*current_a, &key("current_a"))?),
             },
-            RawLoad::Relay { coil_ohms, coil_tolerance, rated_v, must_operate_fraction, inductance_h } => {
+            RawLoad::Relay {
+                coil_ohms,
+                coil_tolerance,
+                rated_v,
+                must_operate_fraction,
+                inductance_h,
+            } => {
                 let coil = positive(*coil_ohms, &key("coil_ohms"))?;
                 let tolerance = match coil_tolerance {
                     Some(v) => fraction(*v, &key("coil_tolerance"))?,
                     None => {
-                        self.assume(format!("coil tolerance ±{} assumed [practice]", pct(DEFAULT_COIL_TOLERANCE)));
+                        self.assume(format!(
+                            "coil tolerance ±{} assumed [practice]",
+                            pct(DEFAULT_COIL_TOLERANCE)
+                        ));
                         DEFAULT_COIL_TOLERANCE
                     }
                 };
                 let rated = match rated_v {
                     Some(v) => positive(*v, &key("rated_v"))?,
                     None => {
-                        self.assume(format!("coil rated voltage {} assumed (the nominal supply)", fe(supply, "V")));
+                        self.assume(format!(
+                            "coil rated voltage {} assumed (the nominal supply)",
+                            fe(supply, "V")
+                        ));
                         supply
                     }
                 };
@@ -314,17 +354,43 @@ impl Resolver<'_> {
                     Some(v) => Some(henries(positive(*v, &key("inductance_h"))?)),
                     None => None,
                 };
-                Load::Relay(Relay { coil_20c: ohms(coil), tolerance, rated: volts(rated), must_operate_fraction: must, inductance })
+                Load::Relay(Relay {
+                    coil_20c: ohms(coil),
+                    tolerance,
+                    rated: volts(rated),
+                    must_operate_fraction: must,
+                    inductance,
+                })
             }
-            RawLoad::Led { count, forward_v, forward_min_v, forward_max_v, current_a, max_current_a, resistor_ohms } => {
+            RawLoad::Led {
+                count,
+                forward_v,
+                forward_min_v,
+                forward_max_v,
+                current_a,
+                max_current_a,
+                resistor_ohms,
+            } => {
                 if *count == 0 || *count > 1000 {
-                    return Err(Error::invalid(key("count"), format!("{count} is not allowed: 1 to 1000 LEDs in series are needed")));
+                    return Err(Error::invalid(
+                        key("count"),
+                        format!("{count} is not allowed: 1 to 1000 LEDs in series are needed"),
+                    ));
                 }
                 let vf = positive(*forward_v, &key("forward_v"))?;
-                let lo = match forward_min_v { Some(v) => Some(positive(*v, &key("forward_min_v"))?), None => None };
-                let hi = match forward_max_v { Some(v) => Some(positive(*v, &key("forward_max_v"))?), None => None };
+                let lo = match forward_min_v {
+                    Some(v) => Some(positive(*v, &key("forward_min_v"))?),
+                    None => None,
+                };
+                let hi = match forward_max_v {
+                    Some(v) => Some(positive(*v, &key("forward_max_v"))?),
+                    None => None,
+                };
                 if lo.is_none() || hi.is_none() {
-                    self.assume(format!("LED forward voltage spread ±{} per LED assumed [memory]", fe(DEFAULT_LED_VF_SPREAD_V, "V")));
+                    self.assume(format!(
+                        "LED forward voltage spread ±{} per LED assumed [memory]",
+                        fe(DEFAULT_LED_VF_SPREAD_V, "V")
+                    ));
                 }
                 let lo = lo.unwrap_or((vf - DEFAULT_LED_VF_SPREAD_V).max(0.0));
                 let hi = hi.unwrap_or(vf + DEFAULT_LED_VF_SPREAD_V);
@@ -340,9 +406,21 @@ impl Resolver<'_> {
                     Some(v) => Some(ohms(positive(*v, &key("resistor_ohms"))?)),
                     None => None,
                 };
-                Load::Led(Led { count: *count, forward: volts(vf), forward_min: volts(lo), forward_max: volts(hi), current: amps(current), max_current, resistor })
+                Load::Led(Led {
+                    count: *count,
+                    forward: volts(vf),
+                    forward_min: volts(lo),
+                    forward_max: volts(hi),
+                    current: amps(current),
+                    max_current,
+                    resistor,
+                })
             }
-            RawLoad::Strip { rated_v, current_per_m_a, length_m } => Load::Strip(Strip {
+            RawLoad::Strip {
+                rated_v,
+                current_per_m_a,
+                length_m,
+            } => Load::Strip(Strip {
                 rated: volts(positive(*rated_v, &key("rated_v"))?),
                 current_per_metre: amps(positive(*current_per_m_a, &key("current_per_m_a"))?),
                 length_m: positive(*length_m, &key("length_m"))?,
@@ -361,16 +439,28 @@ impl Resolver<'_> {
         };
         let key = |k: &str| -> String { sub_place(&at, k, self.origin, "clamp", kind) };
         let opt_v = |v: &Option<f64>, k: &str| -> Result<Option<f64>> {
-            match v { Some(x) => Ok(Some(positive(*x, &key(k))?)), None => Ok(None) }
+            match v {
+                Some(x) => Ok(Some(positive(*x, &key(k))?)),
+                None => Ok(None),
+            }
         };
         let clamp = match &raw {
             RawClamp::None => Clamp::None,
-            RawClamp::Diode { forward_v, reverse_v, current_a } => Clamp::Diode {
+            RawClamp::Diode {
+                forward_v,
+                reverse_v,
+                current_a,
+            } => Clamp::Diode {
                 forward: volts(self.clamp_forward(opt_v(forward_v, "forward_v")?)),
                 reverse: opt_v(reverse_v, "reverse_v")?.map(volts),
                 current: opt_v(current_a, "current_a")?.map(amps),
             },
-            RawClamp::Zener { zener_v, forward_v, reverse_v, current_a } => Clamp::Zener {
+            RawClamp::Zener {
+                zener_v,
+                forward_v,
+                reverse_v,
+                current_a,
+            } => Clamp::Zener {
                 zener: volts(positive(*zener_v, &key("zener_v"))?),
                 forward: volts(self.clamp_forward(opt_v(forward_v, "forward_v")?)),
                 reverse: opt_v(reverse_v, "reverse_v")?.map(volts),
@@ -378,7 +468,11 @@ impl Resolver<'_> {
             },
         };
         if !load.is_inductive() && !matches!(clamp, Clamp::None) {
-            self.assume(format!("the {} clamp is not used: a {} load does not kick back at turn-off", clamp.kind_name(), load.kind_name()));
+            self.assume(format!(
+                "the {} clamp is not used: a {} load does not kick back at turn-off",
+                clamp.kind_name(),
+                load.kind_name()
+            ));
             return Ok(Clamp::None);
         }
         Ok(clamp)
@@ -386,7 +480,10 @@ impl Resolver<'_> {
 
     fn clamp_forward(&mut self, given: Option<f64>) -> f64 {
         given.unwrap_or_else(|| {
-            self.assume(format!("clamp diode forward drop {} assumed [memory]", fe(DEFAULT_CLAMP_FORWARD_V, "V")));
+            self.assume(format!(
+                "clamp diode forward drop {} assumed [memory]",
+                fe(DEFAULT_CLAMP_FORWARD_V, "V")
+            ));
             DEFAULT_CLAMP_FORWARD_V
         })
     }
@@ -455,7 +552,10 @@ fn positive(v: f64, at: &str) -> Result<f64> {
     if v.is_finite() && v > 0.0 {
         Ok(v)
     } else {
-        Err(Error::invalid(at, format!("{v} is not allowed: a positive finite number is needed")))
+        Err(Error::invalid(
+            at,
+            format!("{v} is not allowed: a positive finite number is needed"),
+        ))
     }
 }
 

@@ -29,8 +29,14 @@ impl std::fmt::Display for PartSource {
 
 /// The shipped part files, embedded at build time: (file name, contents).
 const BUILTIN: &[(&str, &str)] = &[
-    ("demo-npn-40v.json", include_str!("../../parts/demo-npn-40v.json")),
-    ("demo-npn-1a.json", include_str!("../../parts/demo-npn-1a.json")),
+    (
+        "demo-npn-40v.json",
+        include_str!("../../parts/demo-npn-40v.json"),
+    ),
+    (
+        "demo-npn-1a.json",
+        include_str!("../../parts/demo-npn-1a.json"),
+    ),
     ("2n3904.json", include_str!("../../parts/2n3904.json")),
     ("2n2222a.json", include_str!("../../parts/2n2222a.json")),
     ("2n4401.json", include_str!("../../parts/2n4401.json")),
@@ -83,6 +89,11 @@ impl Library {
             }
         }
         Ok(lib)
+    }
+
+    /// Add or replace a part (by id).
+    pub fn insert(&mut self, part: Part) {
+        self.parts.insert(part.id.clone(), part);
     }
 
     /// The part with this id.

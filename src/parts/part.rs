@@ -1,8 +1,6 @@
 //! A validated part: typed quantities and the look-ups the engine needs at 25 C.
 
-use crate::quantity::{
-    amps, volts, Base, Current, Temperature, ThermalResistance, Time, Voltage,
-};
+use crate::quantity::{amps, volts, Base, Current, Temperature, ThermalResistance, Time, Voltage};
 
 use super::PartSource;
 
@@ -108,10 +106,7 @@ impl Part {
         if x >= last.ic.base() {
             return volts(last.v.base() * x / last.ic.base());
         }
-        volts(linear(
-            pts.iter().map(|p| (p.ic.base(), p.v.base())),
-            x,
-        ))
+        volts(linear(pts.iter().map(|p| (p.ic.base(), p.v.base())), x))
     }
 
     /// VBE(sat) (minimum, maximum) at `ic` and 25 C: linear in IC between points, held at the end
@@ -216,9 +211,17 @@ pub(crate) mod tests {
     fn vce_sat_is_linear_then_resistive() {
         let p = demo40();
         assert_relative_eq!(p.vce_sat_max_at(amps(0.005)).base(), 0.2);
-        assert_relative_eq!(p.vce_sat_max_at(amps(0.03)).base(), 0.25, max_relative = 1e-12);
+        assert_relative_eq!(
+            p.vce_sat_max_at(amps(0.03)).base(),
+            0.25,
+            max_relative = 1e-12
+        );
         // Through the origin above the last point: 0.3 V at 50 mA -> 0.6 V at 100 mA.
-        assert_relative_eq!(p.vce_sat_max_at(amps(0.1)).base(), 0.6, max_relative = 1e-12);
+        assert_relative_eq!(
+            p.vce_sat_max_at(amps(0.1)).base(),
+            0.6,
+            max_relative = 1e-12
+        );
     }
 
     #[test]

@@ -50,7 +50,9 @@ pub fn part_from_record(rec: &PartRecord, file: &str, source: PartSource) -> Res
     if !(tj_max.is_finite() && tj_max > 25.0 && tj_max < 400.0) {
         return Err(Error::invalid(
             at("tj_max_c"),
-            format!("{tj_max} is not allowed: a junction limit above 25 C and below 400 C is needed"),
+            format!(
+                "{tj_max} is not allowed: a junction limit above 25 C and below 400 C is needed"
+            ),
         ));
     }
     let rth = positive("r_th_ja_k_per_w", rec.r_th_ja_k_per_w)?;
@@ -73,7 +75,10 @@ pub fn part_from_record(rec: &PartRecord, file: &str, source: PartSource) -> Res
         None => DEFAULT_GAIN_TEMP_EXPONENT,
     };
     if rec.vce_sat_max.is_empty() {
-        return Err(Error::invalid(at("vce_sat_max"), "needs at least one point"));
+        return Err(Error::invalid(
+            at("vce_sat_max"),
+            "needs at least one point",
+        ));
     }
     let mut vce_sat_max = Vec::new();
     for (i, p) in rec.vce_sat_max.iter().enumerate() {
@@ -159,16 +164,18 @@ fn gain_points(
 }
 
 /// Points must be sorted by strictly increasing current.
-fn sorted(currents: impl Iterator<Item = f64>, name: &str, at: &dyn Fn(&str) -> String) -> Result<()> {
+fn sorted(
+    currents: impl Iterator<Item = f64>,
+    name: &str,
+    at: &dyn Fn(&str) -> String,
+) -> Result<()> {
     let mut prev: Option<f64> = None;
     for (i, ic) in currents.enumerate() {
         if let Some(p) = prev {
             if ic <= p {
                 return Err(Error::invalid(
                     at(&format!("{name}[{i}].ic_a")),
-                    format!(
-                        "points must be sorted by increasing current: {ic} A follows {p} A"
-                    ),
+                    format!("points must be sorted by increasing current: {ic} A follows {p} A"),
                 ));
             }
         }

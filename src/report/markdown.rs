@@ -29,7 +29,11 @@ impl Renderer for MarkdownRenderer {
                 Block::Table { headers, rows } => {
                     out.push_str(&format!(
                         "| {} |\n",
-                        headers.iter().map(|h| escape(h)).collect::<Vec<_>>().join(" | ")
+                        headers
+                            .iter()
+                            .map(|h| escape(h))
+                            .collect::<Vec<_>>()
+                            .join(" | ")
                     ));
                     out.push_str(&format!("|{}\n", " --- |".repeat(headers.len())));
                     for row in rows {

@@ -226,10 +226,7 @@ impl StageReport {
                 logic_high_v: num(stage.logic_high.base()),
                 logic_high_min_v: num(stage.logic_high_min.base()),
                 pin_limit_a: num(stage.pin_limit.base()),
-                ambient_c: [
-                    num(stage.ambient_min.base()),
-                    num(stage.ambient_max.base()),
-                ],
+                ambient_c: [num(stage.ambient_min.base()), num(stage.ambient_max.base())],
                 overdrive: stage.overdrive,
                 resistor_tolerance: stage.resistor_tolerance,
                 series: stage.series.to_string(),

@@ -1,0 +1,231 @@
+//! CLI tests: exit codes (files.md), parts commands, colour, output files.
+
+mod common;
+
+use clap::CommandFactory;
+use common::{pinlow, run};
+use pinlow::cli::Cli;
+
+#[test]
+fn command_line_definition_is_consistent() {
+    Cli::command().debug_assert();
+}
+
+#[test]
+fn parts_list_prints_at_least_eight_parts() {
+    let (code, out, _) = run(&["parts", "list"]);
+    assert_eq!(code, 0);
+    let rows = out.lines().filter(|l| l.contains(" npn ")).count();
+    assert!(rows >= 8, "{out}");
+    assert!(out.contains("demo-npn-40v") && out.contains("TIP120"));
+}
+
+#[test]
+fn parts_show_prints_every_figure() {
+    let (code, out, _) = run(&["parts", "show", "demo-npn-1a"]);
+    assert_eq!(code, 0);
+    for needle in [
+        "VCEO",
+        "60 V",
+        "hFE min",
+        "VCE(sat) max",
+        "VBE(sat)",
+        "invented",
+    ] {
+        assert!(out.contains(needle), "{needle} missing in {out}");
+    }
+}
+
+#[test]
+fn parts_check_accepts_shipped_files_and_names_bad_ones() {
+    let (code, out, _) = run(&[
+        "parts",
+        "check",
+        "parts/demo-npn-40v.json",
+        "parts/tip120.json",
+    ]);
+    assert_eq!(code, 0);
+    assert!(out.contains("parts/tip120.json: ok (TIP120)"), "{out}");
+    let (code, _, err) = run(&[
+        "parts",
+        "check",
+        "tests/fixtures/parts-bad/unknown-key.json",
+    ]);
+    assert_eq!(code, 2);
+    assert!(
+        err.contains("tests/fixtures/parts-bad/unknown-key.json"),
+        "{err}"
+    );
+    assert!(err.contains("gain_min[0].vce_v"), "{err}");
+}
+
+#[test]
+fn user_parts_folder_and_variable_add_parts() {
+    let (code, out, _) = run(&["parts", "list", "--parts", "tests/fixtures/parts-extra"]);
+    assert_eq!(code, 0);
+    assert!(out.contains("lab-npn"));
+    let out = pinlow()
+        .args(["parts", "show", "lab-npn"])
+        .env("PINLOW_PARTS", "tests/fixtures/parts-extra")
+        .output()
+        .expect("runs");
+    assert_eq!(out.status.code(), Some(0));
+    let (code, _, err) = run(&["parts", "show", "lab-npn"]);
+    assert_eq!(code, 2, "not known without the folder: {err}");
+}
+
+#[test]
+fn exit_codes_follow_the_verdict() {
+    // The demo board has failing stages: exit 1.
+    let (code, out, _) = run(&["audit", "examples/greenhouse.json"]);
+    assert_eq!(code, 1);
+    assert!(out.contains("Board verdict: FAIL"));
+    // A passing stage: exit 0, with and without --strict.
+    let pass = [
+        "size",
+        "--supply",
+        "12V",
+        "--logic-high",
+        "3V3",
+        "--part",
+        "demo-npn-40v",
+        "--load",
+        "relay",
+        "--coil",
+        "400",
+        "--clamp",
+        "diode",
+        "--clamp-reverse",
+        "100V",
+        "--clamp-current",
+        "1A",
+    ];
+    assert_eq!(run(&pass).0, 0);
+    let mut strict = pass.to_vec();
+    strict.push("--strict");
+    assert_eq!(run(&strict).0, 0);
+    // A marginal stage (no pull-down): 0, and 1 with --strict.
+    let marginal = [
+        "audit",
+        "--supply",
+        "12V",
+        "--logic-high",
+        "3V3",
+        "--part",
+        "demo-npn-40v",
+        "--load",
+        "relay",
+        "--coil",
+        "400",
+        "--clamp",
+        "diode",
+        "--base-resistor",
+        "1k",
+        "--no-pull-down",
+    ];
+    let (code, out, _) = run(&marginal);
+    assert_eq!(code, 0, "{out}");
+    assert!(out.contains("MARGINAL"));
+    let mut strict = marginal.to_vec();
+    strict.push("--strict");
+    assert_eq!(run(&strict).0, 1);
+    // Unusable input: 2.
+    assert_eq!(
+        run(&["audit", "tests/fixtures/errors/unknown-key.json"]).0,
+        2
+    );
+    assert_eq!(run(&["size", "--supply", "twelve"]).0, 2);
+}
+
+#[test]
+fn colour_only_when_asked() {
+    let args = ["audit", "examples/greenhouse.json"];
+    let (_, plain, _) = run(&args);
+    assert!(!plain.contains('\u{1b}'), "no colour off a terminal");
+    let (_, never, _) = run(&["audit", "examples/greenhouse.json", "--color", "never"]);
+    assert!(!never.contains('\u{1b}'));
+    let (_, always, _) = run(&["audit", "examples/greenhouse.json", "--color", "always"]);
+    assert!(always.contains('\u{1b}'), "--color always colours");
+}
+
+#[test]
+fn output_file_receives_the_report() {
+    let dir = std::env::temp_dir().join(format!("pinlow-out-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).expect("temp dir");
+    let file = dir.join("review.md");
+    let file_s = file.to_string_lossy().into_owned();
+    let (code, out, _) = run(&[
+        "audit",
+        "examples/greenhouse.json",
+        "--format",
+        "markdown",
+        "--output",
+        &file_s,
+    ]);
+    assert_eq!(code, 1);
+    assert!(out.is_empty());
+    let text = std::fs::read_to_string(&file).expect("written");
+    assert!(text.starts_with("# Board: greenhouse controller"), "{text}");
+    std::fs::remove_dir_all(&dir).ok();
+}
+
+#[test]
+fn json_report_has_the_contract_fields() {
+    let (_, out, _) = run(&["audit", "examples/greenhouse.json", "--format", "json"]);
+    let v: serde_json::Value = serde_json::from_str(&out).expect("valid JSON");
+    assert_eq!(v["verdict"], "fail");
+    let s = &v["stages"][0];
+    for key in [
+        "name",
+        "verdict",
+        "base_resistor_ohms",
+        "base_resistor_sized",
+        "pull_down_ohms",
+        "led_resistor_ohms",
+        "worst_case",
+        "checks",
+        "assumptions",
+        "cautions",
+    ] {
+        assert!(s.get(key).is_some(), "{key} missing");
+    }
+    for key in [
+        "collector_current_max_a",
+        "base_current_min_a",
+        "gain_min",
+        "overdrive_min",
+        "forced_beta_max",
+        "pin_current_max_a",
+        "power_max_w",
+        "junction_max_c",
+        "collector_peak_v",
+    ] {
+        assert!(
+            s["worst_case"].get(key).is_some(),
+            "worst_case.{key} missing"
+        );
+    }
+    let c = &s["checks"][0];
+    for key in ["id", "status", "value", "limit", "detail"] {
+        assert!(c.get(key).is_some(), "checks[].{key} missing");
+    }
+}
+
+#[test]
+fn every_command_has_help_with_examples_and_a_version() {
+    for args in [
+        vec!["--help"],
+        vec!["size", "--help"],
+        vec!["audit", "--help"],
+        vec!["parts", "list", "--help"],
+        vec!["parts", "show", "--help"],
+        vec!["parts", "check", "--help"],
+    ] {
+        let (code, out, _) = run(&args);
+        assert_eq!(code, 0);
+        assert!(out.contains("Example"), "{args:?}: {out}");
+    }
+    let (code, out, _) = run(&["--version"]);
+    assert_eq!(code, 0);
+    assert!(out.starts_with("pinlow "));
+}
