@@ -88,7 +88,7 @@ pub fn run(
                 &Origin::Flags,
                 &lib,
             )?;
-            report_outcome(&audit(None, &[stage]), format, color, cli.strict)
+            report_outcome(&audit(None, &[stage]), format, color, cli)
         }
         Command::Audit { board, stage } => {
             let lib = Library::load(&paths)?;
@@ -117,7 +117,7 @@ pub fn run(
                     audit(None, &[s])
                 }
             };
-            report_outcome(&report, format, color, cli.strict)
+            report_outcome(&report, format, color, cli)
         }
     };
     if let Some(path) = &cli.output {
@@ -142,10 +142,15 @@ pub fn exit_code(report: &Report, strict: bool) -> u8 {
     }
 }
 
-fn report_outcome(report: &Report, format: Format, color: bool, strict: bool) -> Outcome {
+fn report_outcome(report: &Report, format: Format, color: bool, cli: &Cli) -> Outcome {
+    let shown = if cli.only_problems {
+        report.only_problems()
+    } else {
+        report.clone()
+    };
     Outcome {
-        stdout: render(report, format, color),
-        code: exit_code(report, strict),
+        stdout: render(&shown, format, color),
+        code: exit_code(report, cli.strict),
     }
 }
 

@@ -40,6 +40,9 @@ pub struct Cli {
     /// Colour in tables: auto (a terminal, NO_COLOR unset), always or never.
     #[arg(long, value_enum, default_value_t = ColorArg::Auto, global = true)]
     pub color: ColorArg,
+    /// Print only the stages that are not a pass (the exit code still counts every stage).
+    #[arg(long, global = true)]
+    pub only_problems: bool,
     /// Write the report to FILE instead of standard output.
     #[arg(long, short = 'o', value_name = "FILE", global = true)]
     pub output: Option<PathBuf>,

@@ -7,6 +7,7 @@
 pub mod checks;
 pub mod corners;
 pub mod finding;
+pub mod fixes;
 pub mod resistors;
 pub mod sizing;
 pub mod temperature;
@@ -149,7 +150,12 @@ fn cautions(stage: &Stage, wc: &WorstCase) -> Vec<String> {
 pub fn audit(board: Option<String>, stages: &[Stage]) -> crate::report::Report {
     let reports = stages
         .iter()
-        .map(|s| crate::report::StageReport::from_analysis(s, &analyse(s)))
+        .map(|s| {
+            let a = analyse(s);
+            let mut r = crate::report::StageReport::from_analysis(s, &a);
+            r.fixes = fixes::propose_fixes(s, &a);
+            r
+        })
         .collect();
     crate::report::Report::new(board, reports)
 }

@@ -3,6 +3,7 @@
 
 use serde::Serialize;
 
+use crate::analysis::fixes::Fix;
 use crate::analysis::{Finding, RatingSource, Role, StageAnalysis, Status};
 use crate::quantity::{format_rkm, Base};
 use crate::stage::Stage;
@@ -31,6 +32,8 @@ pub struct Report {
 /// One stage's results.
 #[derive(Clone, Debug, Serialize)]
 pub struct StageReport {
+    /// Position in the board, from 1.
+    pub index: usize,
     /// Name.
     pub name: String,
     /// Worst check.
@@ -65,6 +68,8 @@ pub struct StageReport {
     pub assumptions: Vec<String>,
     /// Cautions that apply.
     pub cautions: Vec<String>,
+    /// Remedies for every check that is not a pass, each re-checked.
+    pub fixes: Vec<Fix>,
 }
 
 /// The inputs that shape the corners.
@@ -210,6 +215,7 @@ impl StageReport {
             })
             .collect();
         StageReport {
+            index: 0,
             name: stage.name.clone(),
             verdict: a.verdict,
             part: stage.part.id.clone(),
@@ -269,6 +275,7 @@ impl StageReport {
             checks,
             assumptions: a.assumptions.clone(),
             cautions: a.cautions.clone(),
+            fixes: Vec::new(),
         }
     }
 
@@ -280,7 +287,10 @@ impl StageReport {
 
 impl Report {
     /// Gather stage reports under one verdict.
-    pub fn new(board: Option<String>, stages: Vec<StageReport>) -> Report {
+    pub fn new(board: Option<String>, mut stages: Vec<StageReport>) -> Report {
+        for (i, s) in stages.iter_mut().enumerate() {
+            s.index = i + 1;
+        }
         let verdict = stages
             .iter()
             .map(|s| s.verdict)
@@ -292,6 +302,20 @@ impl Report {
             board,
             model_version: MODEL_VERSION,
             cautions: vec![GENERAL_CAUTION.to_string()],
+        }
+    }
+
+    /// The same report keeping only the stages that are not a pass (the verdict stays that of
+    /// the whole board).
+    pub fn only_problems(&self) -> Report {
+        Report {
+            stages: self
+                .stages
+                .iter()
+                .filter(|s| s.verdict != Status::Pass)
+                .cloned()
+                .collect(),
+            ..self.clone()
         }
     }
 

@@ -95,8 +95,10 @@ pub fn document(report: &Report) -> Vec<Block> {
     if let Some(b) = &report.board {
         out.push(Block::Heading(1, format!("Board: {b}")));
     }
-    for (i, s) in report.stages.iter().enumerate() {
-        stage_blocks(&mut out, i + 1, s);
+    out.push(Block::Heading(2, "Summary".to_string()));
+    out.push(summary(report));
+    for s in &report.stages {
+        stage_blocks(&mut out, s);
     }
     let (p, m, f) = report.counts();
     out.push(Block::Verdict(
@@ -127,7 +129,51 @@ pub fn document(report: &Report) -> Vec<Block> {
     out
 }
 
-fn stage_blocks(out: &mut Vec<Block>, n: usize, s: &StageReport) {
+fn summary(report: &Report) -> Block {
+    Block::Table {
+        headers: vec![
+            "Stage".into(),
+            "Load".into(),
+            "Part".into(),
+            "RB".into(),
+            "Overdrive".into(),
+            "Tj max [°C]".into(),
+            "Verdict".into(),
+            "First finding".into(),
+        ],
+        rows: report
+            .stages
+            .iter()
+            .map(|s| {
+                vec![
+                    Cell::from(s.name.clone()),
+                    Cell::from(s.load_kind),
+                    Cell::from(s.part.clone()),
+                    Cell::from(format!(
+                        "{}{}",
+                        crate::quantity::format_rkm(s.base_resistor_ohms),
+                        if s.base_resistor_sized {
+                            " (sized)"
+                        } else {
+                            ""
+                        }
+                    )),
+                    Cell::from(plain(s.worst_case.overdrive_min, 3)),
+                    Cell::from(plain(Some(s.worst_case.junction_max_c), 4)),
+                    status_cell(s.verdict),
+                    Cell::from(
+                        s.first_problem()
+                            .map(|f| format!("{} {}", f.id, f.status))
+                            .unwrap_or_else(|| "-".to_string()),
+                    ),
+                ]
+            })
+            .collect(),
+    }
+}
+
+fn stage_blocks(out: &mut Vec<Block>, s: &StageReport) {
+    let n = s.index;
     out.push(Block::Heading(
         2,
         format!(
@@ -251,6 +297,23 @@ fn stage_blocks(out: &mut Vec<Block>, n: usize, s: &StageReport) {
             })
             .collect(),
     });
+    if !s.fixes.is_empty() {
+        let items = s
+            .fixes
+            .iter()
+            .map(|f| {
+                let mut text = format!("{}: {}", f.check, f.action);
+                if let Some(st) = f.recheck {
+                    text.push_str(&format!(" (re-checked: {st})"));
+                }
+                for c in &f.conflicts {
+                    text.push_str(&format!("; conflict: {c}"));
+                }
+                text
+            })
+            .collect();
+        out.push(Block::List(format!("Fixes, {}", s.name), items));
+    }
 }
 
 fn pct(f: f64) -> String {
