@@ -62,7 +62,22 @@ pub fn pull_down_for(stage: &Stage, rb: Resistance) -> Option<Resistance> {
 /// Walk the series from 10 Mohm down to 10 ohm and take the largest RB whose worst-case overdrive
 /// reaches the target.
 pub fn size_base_resistor(stage: &Stage, corner: &LoadCorner) -> BaseSizing {
-    for rb in stage.series.values().rev() {
+    // A pull-down only takes base current away, so no RB above the value that reaches the
+    // overdrive without one can reach it with one: start the walk there (same result, fewer steps).
+    let drive = (stage.logic_high_min - corner.vbe_sat_max_cold).base();
+    let ib_needed = stage.overdrive * corner.ic_max.base() / corner.gain_min;
+    let bound = drive / (ib_needed * (1.0 + stage.resistor_tolerance));
+    let start = if bound.is_finite() && bound > 0.0 {
+        bound * (1.0 + 1e-9)
+    } else {
+        f64::INFINITY
+    };
+    for rb in stage
+        .series
+        .values()
+        .rev()
+        .skip_while(|rb| rb.base() > start)
+    {
         let rbe = pull_down_for(stage, rb);
         let ib = corner.base_current_min(stage, rb, rbe);
         if ib.base() > 0.0 && corner.overdrive(ib) >= stage.overdrive {
