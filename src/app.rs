@@ -90,6 +90,49 @@ pub fn run(
             )?;
             report_outcome(&audit(None, &[stage]), format, color, cli)
         }
+        Command::Plot { board, stage } => {
+            let lib = Library::load(&paths)?;
+            let Some(out) = &cli.output else {
+                return Err(Error::Usage("plot needs --output FILE.svg".into()));
+            };
+            let stages = match board {
+                Some(path) => {
+                    if stage.any() {
+                        return Err(Error::Usage(
+                            "stage flags cannot be combined with a board file".into(),
+                        ));
+                    }
+                    read_board(path, &lib)?.stages
+                }
+                None => vec![resolve_stage(
+                    &raw_from_flags(stage)?,
+                    &RawStage::default(),
+                    &Origin::Flags,
+                    &lib,
+                )?],
+            };
+            let mut written = String::new();
+            for (i, s) in stages.iter().enumerate() {
+                let a = crate::analysis::analyse(s);
+                let svg = crate::plot::stage_svg(s, &a).map_err(|e| {
+                    Error::invalid(format!("stage `{}`", s.name), format!("cannot draw: {e}"))
+                })?;
+                let path = if stages.len() == 1 {
+                    out.clone()
+                } else {
+                    numbered(out, i + 1)
+                };
+                std::fs::write(&path, svg).map_err(|source| Error::Io {
+                    path: path.clone(),
+                    source,
+                })?;
+                written.push_str(&format!("{}: {}\n", s.name, path.display()));
+            }
+            return Ok(Outcome {
+                stdout: written,
+                code: 0,
+            });
+        }
         Command::Audit { board, stage } => {
             let lib = Library::load(&paths)?;
             let report = match board {
@@ -131,6 +174,19 @@ pub fn run(
         });
     }
     Ok(outcome)
+}
+
+/// `out.svg` -> `out-N.svg`, beside it.
+fn numbered(out: &std::path::Path, n: usize) -> PathBuf {
+    let stem = out
+        .file_stem()
+        .map(|s| s.to_string_lossy().into_owned())
+        .unwrap_or_else(|| "stage".into());
+    let ext = out
+        .extension()
+        .map(|e| e.to_string_lossy().into_owned())
+        .unwrap_or_else(|| "svg".into());
+    out.with_file_name(format!("{stem}-{n}.{ext}"))
 }
 
 /// Exit code of a report: 1 on a failing stage, or a marginal one under `--strict`.

@@ -71,6 +71,19 @@ pub enum Command {
         #[command(flatten)]
         stage: StageArgs,
     },
+    /// Draw an SVG of one stage (stage flags) or of each stage of a board file: output curves,
+    /// load line, nominal and worst-case operating points, and overdrive against ambient.
+    #[command(after_help = "Examples:
+  pinlow plot --supply 12V --logic-high 3V3 --part demo-npn-40v --load relay --coil 400 --clamp diode --output relay.svg
+  pinlow plot examples/greenhouse.json --output greenhouse.svg   (one file per stage: greenhouse-1.svg, ...)")]
+    Plot {
+        /// A board file; without it, the stage flags describe one stage.
+        #[arg(value_name = "FILE")]
+        board: Option<PathBuf>,
+        /// The stage, when no board file is given.
+        #[command(flatten)]
+        stage: StageArgs,
+    },
     /// List, show or check part files.
     #[command(subcommand)]
     Parts(PartsCommand),

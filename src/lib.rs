@@ -13,6 +13,7 @@ pub mod error;
 pub mod eseries;
 pub mod load;
 pub mod parts;
+pub mod plot;
 pub mod quantity;
 pub mod report;
 pub mod stage;
