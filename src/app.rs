@@ -113,19 +113,12 @@ pub fn run(
             };
             let mut written = String::new();
             for (i, s) in stages.iter().enumerate() {
-                let a = crate::analysis::analyse(s);
-                let svg = crate::plot::stage_svg(s, &a).map_err(|e| {
-                    Error::invalid(format!("stage `{}`", s.name), format!("cannot draw: {e}"))
-                })?;
                 let path = if stages.len() == 1 {
                     out.clone()
                 } else {
                     numbered(out, i + 1)
                 };
-                std::fs::write(&path, svg).map_err(|source| Error::Io {
-                    path: path.clone(),
-                    source,
-                })?;
+                write_stage_svg(s, &path)?;
                 written.push_str(&format!("{}: {}\n", s.name, path.display()));
             }
             return Ok(Outcome {
@@ -143,7 +136,9 @@ pub fn run(
                         ));
                     }
                     let board = read_board(path, &lib)?;
-                    audit(board.name, &board.stages)
+                    let mut report = audit(board.name, &board.stages);
+                    draw_plots(cli, &board.stages, &mut report)?;
+                    report
                 }
                 None => {
                     if stage.base_resistor.is_none() {
@@ -157,7 +152,9 @@ pub fn run(
                         &Origin::Flags,
                         &lib,
                     )?;
-                    audit(None, &[s])
+                    let mut report = audit(None, std::slice::from_ref(&s));
+                    draw_plots(cli, &[s], &mut report)?;
+                    report
                 }
             };
             report_outcome(&report, format, color, cli)
@@ -174,6 +171,34 @@ pub fn run(
         });
     }
     Ok(outcome)
+}
+
+/// With `--plots DIR`, draw every stage into DIR and note the path in its report.
+fn draw_plots(cli: &Cli, stages: &[crate::stage::Stage], report: &mut Report) -> Result<()> {
+    let Some(dir) = &cli.plots else {
+        return Ok(());
+    };
+    std::fs::create_dir_all(dir).map_err(|source| Error::Io {
+        path: dir.clone(),
+        source,
+    })?;
+    for (s, r) in stages.iter().zip(report.stages.iter_mut()) {
+        let path = dir.join(format!("stage-{}.svg", r.index));
+        write_stage_svg(s, &path)?;
+        r.plot_svg = Some(path.display().to_string());
+    }
+    Ok(())
+}
+
+/// Analyse one stage and write its SVG to `path`.
+fn write_stage_svg(s: &crate::stage::Stage, path: &std::path::Path) -> Result<()> {
+    let a = crate::analysis::analyse(s);
+    let svg = crate::plot::stage_svg(s, &a)
+        .map_err(|e| Error::invalid(format!("stage `{}`", s.name), format!("cannot draw: {e}")))?;
+    std::fs::write(path, svg).map_err(|source| Error::Io {
+        path: path.to_path_buf(),
+        source,
+    })
 }
 
 /// `out.svg` -> `out-N.svg`, beside it.

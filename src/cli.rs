@@ -43,6 +43,9 @@ pub struct Cli {
     /// Print only the stages that are not a pass (the exit code still counts every stage).
     #[arg(long, global = true)]
     pub only_problems: bool,
+    /// Draw each stage's operating point as DIR/stage-N.svg and link it from the report.
+    #[arg(long, value_name = "DIR", global = true)]
+    pub plots: Option<PathBuf>,
     /// Write the report to FILE instead of standard output.
     #[arg(long, short = 'o', value_name = "FILE", global = true)]
     pub output: Option<PathBuf>,

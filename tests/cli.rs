@@ -229,3 +229,80 @@ fn every_command_has_help_with_examples_and_a_version() {
     assert_eq!(code, 0);
     assert!(out.starts_with("pinlow "));
 }
+
+#[test]
+fn plot_writes_an_svg_per_stage() {
+    let dir = std::env::temp_dir().join(format!("pinlow-plot-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).expect("temp dir");
+    let one = dir.join("relay.svg");
+    let (code, out, err) = run(&[
+        "plot",
+        "--supply",
+        "12V",
+        "--logic-high",
+        "3V3",
+        "--part",
+        "demo-npn-40v",
+        "--load",
+        "relay",
+        "--coil",
+        "400",
+        "--clamp",
+        "diode",
+        "--output",
+        &one.to_string_lossy(),
+    ]);
+    assert_eq!(code, 0, "{err}");
+    assert!(out.contains("relay.svg"));
+    let svg = std::fs::read_to_string(&one).expect("svg written");
+    for class in [
+        "pinlow-load-line",
+        "pinlow-curve",
+        "pinlow-point-nominal",
+        "pinlow-point-worst",
+    ] {
+        assert!(svg.contains(class), "{class} missing");
+    }
+    let many = dir.join("board.svg");
+    let (code, _, err) = run(&[
+        "plot",
+        "examples/greenhouse.json",
+        "--output",
+        &many.to_string_lossy(),
+    ]);
+    assert_eq!(code, 0, "{err}");
+    assert!(dir.join("board-1.svg").exists() && dir.join("board-7.svg").exists());
+    let (code, _, err) = run(&["plot", "examples/greenhouse.json"]);
+    assert_eq!(code, 2, "no --output is a usage error: {err}");
+    std::fs::remove_dir_all(&dir).ok();
+}
+
+#[test]
+fn markdown_links_the_plots() {
+    let dir = std::env::temp_dir().join(format!("pinlow-plots-{}", std::process::id()));
+    let plots = dir.join("plots");
+    let (code, out, _) = run(&[
+        "audit",
+        "examples/greenhouse.json",
+        "--format",
+        "markdown",
+        "--plots",
+        &plots.to_string_lossy(),
+    ]);
+    assert_eq!(code, 1);
+    assert!(
+        out.contains("![Operating point of K1 vent relay]("),
+        "{out}"
+    );
+    assert!(plots.join("stage-1.svg").exists());
+    std::fs::remove_dir_all(&dir).ok();
+}
+
+#[test]
+fn only_problems_hides_passing_stages_but_not_the_verdict() {
+    let (code, out, _) = run(&["audit", "examples/greenhouse.json", "--only-problems"]);
+    assert_eq!(code, 1);
+    assert!(!out.contains("K1 vent relay"), "K1 passes and is hidden");
+    assert!(out.contains("B1 frost alarm buzzer"));
+    assert!(out.contains("Board verdict: FAIL"));
+}

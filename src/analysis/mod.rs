@@ -48,8 +48,8 @@ pub struct StageAnalysis {
     pub findings: Vec<Finding>,
     /// The worst finding.
     pub verdict: Status,
-    /// Every default the stage took.
-    pub assumptions: Vec<String>,
+    /// Defaults the engine took beyond those the stage lists (`Stage::assumptions`).
+    pub extra_assumptions: Vec<String>,
     /// Cautions that apply.
     pub cautions: Vec<String>,
 }
@@ -100,13 +100,13 @@ pub fn analyse(stage: &Stage) -> StageAnalysis {
         .map(|f| f.status)
         .max()
         .unwrap_or(Status::Pass);
-    let mut assumptions = stage.assumptions.clone();
+    let mut extra_assumptions = Vec::new();
     if stage.resistor_rating.is_none()
         && resistors
             .iter()
             .any(|r| r.rating_source == RatingSource::Assumed)
     {
-        assumptions.push(format!(
+        extra_assumptions.push(format!(
             "fitted resistors rated {} assumed [practice]",
             fe(DEFAULT_RESISTOR_RATING_W, "W")
         ));
@@ -120,7 +120,19 @@ pub fn analyse(stage: &Stage) -> StageAnalysis {
         gain_needed_within_pin_limit: gain_needed,
         findings,
         verdict,
-        assumptions,
+        extra_assumptions,
+    }
+}
+
+impl StageAnalysis {
+    /// Every default taken: the stage's own list, then the engine's.
+    pub fn assumptions(&self, stage: &Stage) -> Vec<String> {
+        stage
+            .assumptions
+            .iter()
+            .chain(&self.extra_assumptions)
+            .cloned()
+            .collect()
     }
 }
 

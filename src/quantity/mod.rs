@@ -472,11 +472,68 @@ pub fn parse_temperature_range(text: &str) -> Result<(f64, f64), ParseValueError
 /// A finite, non-negative value rounded to 3 significant digits: the digits (always 3) and the
 /// decimal exponent of the first digit.
 fn three_digits(v: f64) -> Option<(String, i32)> {
+    if !(v.is_finite() && v >= 0.0) {
+        return None;
+    }
+    if v == 0.0 {
+        return Some(("000".to_string(), 0));
+    }
+    // Scale to [100, 1000) and round; exact powers of ten keep decimal inputs such as 4700 or
+    // 0.00274 exact. Far outside the prefix range, fall back to the exact decimal formatter.
+    let mut exp = v.log10().floor() as i32;
+    let shift = 2 - exp;
+    let scaled = match EXACT_POW10_F64.get(shift.unsigned_abs() as usize) {
+        Some(p) if shift >= 0 => v * p,
+        Some(p) => v / p,
+        None => return three_digits_exact(v),
+    };
+    // log10 can land one decade off right at a power of ten.
+    let (mut m, scaled) = if scaled >= 999.5 {
+        exp += 1;
+        ((scaled / 10.0).round(), scaled / 10.0)
+    } else if scaled < 99.5 {
+        exp -= 1;
+        ((scaled * 10.0).round(), scaled * 10.0)
+    } else {
+        (scaled.round(), scaled)
+    };
+    // A value within rounding noise of a half step goes to the exact formatter, which rounds
+    // the true decimal value.
+    if ((scaled - scaled.floor()) - 0.5).abs() < 1e-9 {
+        return three_digits_exact(v);
+    }
+    if m >= 1000.0 {
+        m = 100.0;
+        exp += 1;
+    }
+    Some((format!("{}", m as u16), exp))
+}
+
+/// Exact powers of ten that f64 holds: 10^0 ..= 10^22.
+const EXACT_POW10_F64: [f64; 23] = [
+    1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16,
+    1e17, 1e18, 1e19, 1e20, 1e21, 1e22,
+];
+
+/// Three significant digits by the exact decimal formatter (slow, always right).
+fn three_digits_exact(v: f64) -> Option<(String, i32)> {
     let s = format!("{v:.2e}");
     let (mantissa, exp) = s.split_once('e')?;
     let exp = exp.parse::<i32>().ok()?;
     let digits: String = mantissa.chars().filter(char::is_ascii_digit).collect();
     (digits.len() == 3).then_some((digits, exp))
+}
+
+#[cfg(test)]
+#[test]
+fn fast_three_digits_agree_with_the_exact_formatter() {
+    let mut x = 1.234_567e-13;
+    while x < 1e13 {
+        for v in [x, x * 1.0049, x * 2.745, x * 9.995, x * 9.9949, x * 1.5] {
+            assert_eq!(three_digits(v), three_digits_exact(v), "{v}");
+        }
+        x *= 1.37;
+    }
 }
 
 /// Split `digits` into integer and fraction parts with `int_len` integer digits (padding with

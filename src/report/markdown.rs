@@ -59,6 +59,13 @@ impl Renderer for MarkdownRenderer {
                     out.push_str(&escape(&text));
                     out.push_str("\n\n");
                 }
+                Block::Image(alt, path) => {
+                    out.push_str(&format!(
+                        "![{}]({})\n\n",
+                        escape(&alt),
+                        path.replace(' ', "%20")
+                    ));
+                }
                 Block::Verdict(text, _) => {
                     out.push_str(&format!("**{}**\n\n", escape(&text)));
                 }

@@ -70,6 +70,8 @@ pub struct StageReport {
     pub cautions: Vec<String>,
     /// Remedies for every check that is not a pass, each re-checked.
     pub fixes: Vec<Fix>,
+    /// The SVG drawn for this stage (`--plots DIR`), when one was.
+    pub plot_svg: Option<String>,
 }
 
 /// The inputs that shape the corners.
@@ -273,9 +275,10 @@ impl StageReport {
                 led_current_max_a: wc.led.map(|l| num(l.max.base())),
             },
             checks,
-            assumptions: a.assumptions.clone(),
+            assumptions: a.assumptions(stage),
             cautions: a.cautions.clone(),
             fixes: Vec::new(),
+            plot_svg: None,
         }
     }
 

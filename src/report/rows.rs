@@ -47,6 +47,8 @@ pub enum Block {
     Line(String),
     /// A verdict line.
     Verdict(String, Status),
+    /// A picture: alt text and path.
+    Image(String, String),
 }
 
 /// Number with up to `digits` significant digits, trailing zeros trimmed; `-` for none.
@@ -184,6 +186,12 @@ fn stage_blocks(out: &mut Vec<Block>, s: &StageReport) {
             s.verdict.as_str().to_uppercase()
         ),
     ));
+    if let Some(path) = &s.plot_svg {
+        out.push(Block::Image(
+            format!("Operating point of {}", s.name),
+            path.clone(),
+        ));
+    }
     let c = &s.conditions;
     out.push(Block::Line(format!(
         "Supply {} ±{}, logic high {} (min {}), pin limit {}, ambient {} .. {} °C, overdrive {}",

@@ -93,6 +93,9 @@ impl Renderer for TableRenderer {
                     out.push_str(&text);
                     out.push('\n');
                 }
+                Block::Image(alt, path) => {
+                    out.push_str(&format!("{alt}: {path}\n"));
+                }
                 Block::Verdict(text, status) => {
                     out.push('\n');
                     out.push_str(&self.verdict_line(&text, status));
