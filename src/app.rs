@@ -51,13 +51,20 @@ pub fn run(
     let outcome = match &cli.command {
         Command::Parts(PartsCommand::Check { files }) => {
             let mut text = String::new();
+            let mut errors = Vec::new();
             for f in files {
-                let part = check_file(f)?;
-                text.push_str(&format!("{}: ok ({})\n", f.display(), part.id));
+                match check_file(f) {
+                    Ok(part) => text.push_str(&format!("{}: ok ({})\n", f.display(), part.id)),
+                    Err(e) => errors.push(e),
+                }
             }
-            Outcome {
-                stdout: text,
-                code: 0,
+            match errors.len() {
+                0 => Outcome {
+                    stdout: text,
+                    code: 0,
+                },
+                1 => return Err(errors.remove(0)),
+                _ => return Err(Error::Many(errors)),
             }
         }
         Command::Parts(PartsCommand::List) => {

@@ -65,6 +65,9 @@ pub enum Error {
         /// Second file.
         second: String,
     },
+    /// Several independent problems (one per file checked).
+    #[error("{}", .0.iter().map(ToString::to_string).collect::<Vec<_>>().join("\npinlow: error: "))]
+    Many(Vec<Error>),
     /// A usage problem with the command line that clap cannot see (flags that do not fit together).
     #[error("{0}")]
     Usage(String),
@@ -76,6 +79,28 @@ impl Error {
         Error::Invalid {
             place: place.into(),
             message: message.into(),
+        }
+    }
+
+    /// Add the line and column of the JSON path an error names, when `text` (the contents of
+    /// `file`) holds it: `FILE: stages[0].x` becomes `FILE: line L, column C, at stages[0].x`.
+    pub fn with_position(self, file: &str, text: &str) -> Self {
+        let locate = |place: &str| -> Option<String> {
+            let path = place.strip_prefix(file)?.strip_prefix(": ")?;
+            let (line, column) = crate::jsonpos::locate(text, path)?;
+            Some(format!("{file}: line {line}, column {column}, at {path}"))
+        };
+        match self {
+            Error::Invalid { place, message } => Error::Invalid {
+                place: locate(&place).unwrap_or(place),
+                message,
+            },
+            Error::UnknownPart { place, id, known } => Error::UnknownPart {
+                place: locate(&place).unwrap_or(place),
+                id,
+                known,
+            },
+            other => other,
         }
     }
 

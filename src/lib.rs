@@ -11,6 +11,7 @@ pub mod board;
 pub mod cli;
 pub mod error;
 pub mod eseries;
+pub mod jsonpos;
 pub mod load;
 pub mod parts;
 pub mod plot;

@@ -64,6 +64,21 @@ fn part_file_errors() {
     });
 }
 
+#[test]
+fn part_check_reports_every_bad_file() {
+    let (code, out, err) = run(&[
+        "parts",
+        "check",
+        "tests/fixtures/parts-bad/negative-rating.json",
+        "parts/2n3904.json",
+        "tests/fixtures/parts-bad/unsorted.json",
+    ]);
+    assert_eq!(code, 2);
+    assert!(out.is_empty());
+    assert_eq!(err.lines().count(), 2, "{err}");
+    insta::assert_snapshot!(err);
+}
+
 /// Flag errors: each is (name, arguments).
 const FLAG_ERRORS: &[(&str, &[&str])] = &[
     (

@@ -34,10 +34,10 @@ pub fn read_board(path: &Path, lib: &Library) -> Result<Board> {
 pub fn parse_board(file: &str, text: &str, lib: &Library) -> Result<Board> {
     let raw: RawBoard = parse_json(file, text)?;
     if raw.stages.is_empty() {
-        return Err(Error::invalid(
-            format!("{file}: stages"),
-            "the board has no stage to audit",
-        ));
+        return Err(
+            Error::invalid(format!("{file}: stages"), "the board has no stage to audit")
+                .with_position(file, text),
+        );
     }
     let stages = raw
         .stages
@@ -48,7 +48,7 @@ pub fn parse_board(file: &str, text: &str, lib: &Library) -> Result<Board> {
                 file: file.to_string(),
                 index,
             };
-            resolve_stage(s, &raw.defaults, &origin, lib)
+            resolve_stage(s, &raw.defaults, &origin, lib).map_err(|e| e.with_position(file, text))
         })
         .collect::<Result<Vec<_>>>()?;
     Ok(Board {

@@ -176,6 +176,7 @@ pub fn check_file(path: &Path) -> Result<Part> {
     let label = path.display().to_string();
     let rec: PartRecord = parse_json(&label, &text)?;
     part_from_record(&rec, &label, PartSource::File(path.to_path_buf()))
+        .map_err(|e| e.with_position(&label, &text))
 }
 
 #[cfg(test)]
