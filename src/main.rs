@@ -10,24 +10,23 @@ use pinlow::cli::Cli;
 fn main() -> ExitCode {
     let cli = Cli::parse();
     let (tty, no_color) = terminal_facts();
-    match run(
+    let stdout = std::io::stdout();
+    let mut out = std::io::BufWriter::new(stdout.lock());
+    let result = run(
         &cli,
         std::env::var_os("PINLOW_PARTS").as_deref(),
         tty,
         no_color,
-    ) {
-        Ok(outcome) => {
-            let mut out = std::io::stdout().lock();
-            if out
-                .write_all(outcome.stdout.as_bytes())
-                .and_then(|_| out.flush())
-                .is_err()
-            {
-                return ExitCode::from(2);
-            }
-            ExitCode::from(outcome.code)
+        &mut out,
+    );
+    let flushed = out.flush();
+    match (result, flushed) {
+        (Ok(code), Ok(())) => ExitCode::from(code),
+        (Ok(_), Err(e)) => {
+            eprintln!("pinlow: error: cannot write the output: {e}");
+            ExitCode::from(2)
         }
-        Err(err) => {
+        (Err(err), _) => {
             eprintln!("pinlow: error: {err}");
             ExitCode::from(2)
         }

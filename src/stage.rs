@@ -1,6 +1,8 @@
 //! A stage: the logic pin, the transistor, its resistors, the load and the conditions it works in,
 //! fully resolved (every default applied and listed as an assumption).
 
+use std::sync::Arc;
+
 use crate::eseries::Series;
 use crate::load::{Clamp, Load};
 use crate::parts::Part;
@@ -23,7 +25,7 @@ pub struct Stage {
     /// The stage's name (`K1 vent relay`).
     pub name: String,
     /// The transistor.
-    pub part: Part,
+    pub part: Arc<Part>,
     /// Nominal supply.
     pub supply: Voltage,
     /// +/- fraction of the supply.

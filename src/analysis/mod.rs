@@ -158,16 +158,21 @@ fn cautions(stage: &Stage, wc: &WorstCase) -> Vec<String> {
     out
 }
 
-/// Analyse every stage and gather the report.
+/// The full report of one stage (with its fixes), numbered `index` in its board.
+pub fn stage_report(index: usize, stage: &Stage) -> crate::report::StageReport {
+    let a = analyse(stage);
+    let mut r = crate::report::StageReport::from_analysis(stage, &a);
+    r.index = index;
+    r.fixes = fixes::propose_fixes(stage, &a);
+    r
+}
+
+/// Analyse every stage and gather the report in memory.
 pub fn audit(board: Option<String>, stages: &[Stage]) -> crate::report::Report {
     let reports = stages
         .iter()
-        .map(|s| {
-            let a = analyse(s);
-            let mut r = crate::report::StageReport::from_analysis(s, &a);
-            r.fixes = fixes::propose_fixes(s, &a);
-            r
-        })
+        .enumerate()
+        .map(|(i, s)| stage_report(i + 1, s))
         .collect();
     crate::report::Report::new(board, reports)
 }

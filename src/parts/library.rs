@@ -3,6 +3,7 @@
 
 use std::collections::BTreeMap;
 use std::path::{Path, PathBuf};
+use std::sync::Arc;
 
 use super::part::Part;
 use super::record::PartRecord;
@@ -55,7 +56,7 @@ pub fn builtin_sources() -> impl Iterator<Item = &'static str> {
 /// Parts by id.
 #[derive(Clone, Debug, Default)]
 pub struct Library {
-    parts: BTreeMap<String, Part>,
+    parts: BTreeMap<String, Arc<Part>>,
 }
 
 impl Library {
@@ -74,7 +75,7 @@ impl Library {
                     second: label,
                 });
             }
-            lib.parts.insert(part.id.clone(), part);
+            lib.parts.insert(part.id.clone(), Arc::new(part));
         }
         Ok(lib)
     }
@@ -85,7 +86,7 @@ impl Library {
         let mut lib = Library::builtin()?;
         for path in paths {
             for part in load_path(path)? {
-                lib.parts.insert(part.id.clone(), part);
+                lib.parts.insert(part.id.clone(), Arc::new(part));
             }
         }
         Ok(lib)
@@ -93,17 +94,17 @@ impl Library {
 
     /// Add or replace a part (by id).
     pub fn insert(&mut self, part: Part) {
-        self.parts.insert(part.id.clone(), part);
+        self.parts.insert(part.id.clone(), Arc::new(part));
     }
 
     /// The part with this id.
     pub fn get(&self, id: &str) -> Option<&Part> {
-        self.parts.get(id)
+        self.parts.get(id).map(|p| p.as_ref())
     }
 
-    /// Look a part up, or say which ids exist.
-    pub fn require(&self, id: &str, place: &str) -> Result<&Part> {
-        self.get(id).ok_or_else(|| Error::UnknownPart {
+    /// Look a part up as a shared handle (stages share their part), or say which ids exist.
+    pub fn require(&self, id: &str, place: &str) -> Result<&Arc<Part>> {
+        self.parts.get(id).ok_or_else(|| Error::UnknownPart {
             place: place.to_string(),
             id: id.to_string(),
             known: self.parts.keys().cloned().collect::<Vec<_>>().join(", "),
@@ -112,7 +113,7 @@ impl Library {
 
     /// Every part, by id.
     pub fn iter(&self) -> impl Iterator<Item = &Part> {
-        self.parts.values()
+        self.parts.values().map(|p| p.as_ref())
     }
 
     /// Number of parts.

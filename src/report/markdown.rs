@@ -1,8 +1,8 @@
 //! The Markdown renderer: the same content as the table, for pasting into a design review.
 
-use super::model::Report;
-use super::rows::{document, Block};
-use super::Renderer;
+use super::model::StageReport;
+use super::rows::{head_blocks, stage_blocks, tail_blocks, Block};
+use super::stream::{Head, Renderer, Tail};
 
 /// Renders a report as GitHub-flavoured Markdown.
 #[derive(Clone, Copy, Debug, Default)]
@@ -13,12 +13,27 @@ fn escape(text: &str) -> String {
 }
 
 impl Renderer for MarkdownRenderer {
-    fn render(&self, report: &Report) -> String {
+    fn head(&mut self, head: &Head) -> String {
         let mut out = String::new();
-        if report.board.is_none() {
+        if head.board.is_none() {
             out.push_str("# Driver stage review\n\n");
         }
-        for block in document(report) {
+        draw(head_blocks(head), out)
+    }
+    fn stage(&mut self, stage: &StageReport) -> String {
+        draw(stage_blocks(stage), String::new())
+    }
+    fn tail(&mut self, tail: &Tail) -> String {
+        draw(tail_blocks(tail), String::new())
+    }
+    fn wants_summary(&self) -> bool {
+        true
+    }
+}
+
+fn draw(blocks: Vec<Block>, mut out: String) -> String {
+    {
+        for block in blocks {
             match block {
                 Block::Heading(level, text) => {
                     out.push_str(&"#".repeat(usize::from(level)));

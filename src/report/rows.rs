@@ -1,7 +1,8 @@
-//! The shared document builder: turns a [`Report`] into headings, tables and lists that the
+//! The shared document builder: turns the head, each stage and the tail of a report into headings, tables and lists that the
 //! table and Markdown renderers both draw. Numbers are formatted here, once.
 
-use super::model::{Report, StageReport};
+use super::model::StageReport;
+use super::stream::{Head, SummaryRow, Tail};
 use crate::analysis::Status;
 use crate::quantity::format_engineering as fe;
 
@@ -91,47 +92,58 @@ fn figure(v: Option<f64>, unit: &str) -> String {
     }
 }
 
-/// The whole document.
-pub fn document(report: &Report) -> Vec<Block> {
+/// The blocks before the stages: board name and summary table.
+pub fn head_blocks(head: &Head) -> Vec<Block> {
     let mut out = Vec::new();
-    if let Some(b) = &report.board {
+    if let Some(b) = &head.board {
         out.push(Block::Heading(1, format!("Board: {b}")));
     }
     out.push(Block::Heading(2, "Summary".to_string()));
-    out.push(summary(report));
-    for s in &report.stages {
-        stage_blocks(&mut out, s);
-    }
-    let (p, m, f) = report.counts();
-    out.push(Block::Verdict(
-        format!(
-            "Board verdict: {} ({p} pass, {m} marginal, {f} fail)",
-            report.verdict.as_str().to_uppercase()
-        ),
-        report.verdict,
-    ));
-    for s in &report.stages {
-        if !s.assumptions.is_empty() {
-            out.push(Block::List(
-                format!("Assumptions, {}", s.name),
-                s.assumptions.clone(),
-            ));
-        }
-    }
-    let mut cautions: Vec<String> = Vec::new();
-    for s in &report.stages {
-        for c in &s.cautions {
-            if !cautions.contains(c) {
-                cautions.push(c.clone());
-            }
-        }
-    }
-    cautions.extend(report.cautions.iter().cloned());
-    out.push(Block::List("Cautions".to_string(), cautions));
+    out.push(summary(&head.summary));
     out
 }
 
-fn summary(report: &Report) -> Block {
+/// The blocks after the stages: verdict, assumptions, cautions.
+pub fn tail_blocks(tail: &Tail) -> Vec<Block> {
+    let (p, m, f) = tail.counts;
+    let mut out = vec![Block::Verdict(
+        format!(
+            "Board verdict: {} ({p} pass, {m} marginal, {f} fail)",
+            tail.verdict.as_str().to_uppercase()
+        ),
+        tail.verdict,
+    )];
+    if !tail.assumptions.is_empty() {
+        let items = tail
+            .assumptions
+            .iter()
+            .map(|(text, names)| format!("{text} ({})", stage_list(names, tail.shown)))
+            .collect();
+        out.push(Block::List("Assumptions".to_string(), items));
+    }
+    out.push(Block::List("Cautions".to_string(), tail.cautions.clone()));
+    out
+}
+
+/// "every stage", or up to eight names and a count of the rest.
+fn stage_list(names: &[String], shown: usize) -> String {
+    const MAX: usize = 8;
+    if names.len() == shown && shown > 1 {
+        return "every stage".to_string();
+    }
+    let mut text = names
+        .iter()
+        .take(MAX)
+        .cloned()
+        .collect::<Vec<_>>()
+        .join(", ");
+    if names.len() > MAX {
+        text.push_str(&format!(" and {} more", names.len() - MAX));
+    }
+    text
+}
+
+fn summary(rows: &[SummaryRow]) -> Block {
     Block::Table {
         headers: vec![
             "Stage".into(),
@@ -143,8 +155,7 @@ fn summary(report: &Report) -> Block {
             "Verdict".into(),
             "First finding".into(),
         ],
-        rows: report
-            .stages
+        rows: rows
             .iter()
             .map(|s| {
                 vec![
@@ -160,12 +171,12 @@ fn summary(report: &Report) -> Block {
                             ""
                         }
                     )),
-                    Cell::from(plain(s.worst_case.overdrive_min, 3)),
-                    Cell::from(plain(Some(s.worst_case.junction_max_c), 4)),
+                    Cell::from(plain(s.overdrive_min, 3)),
+                    Cell::from(plain(Some(s.junction_max_c), 4)),
                     status_cell(s.verdict),
                     Cell::from(
-                        s.first_problem()
-                            .map(|f| format!("{} {}", f.id, f.status))
+                        s.first_problem
+                            .map(|(id, st)| format!("{id} {st}"))
                             .unwrap_or_else(|| "-".to_string()),
                     ),
                 ]
@@ -174,7 +185,14 @@ fn summary(report: &Report) -> Block {
     }
 }
 
-fn stage_blocks(out: &mut Vec<Block>, s: &StageReport) {
+/// The blocks of one stage.
+pub fn stage_blocks(s: &StageReport) -> Vec<Block> {
+    let mut out = Vec::new();
+    stage_into(&mut out, s);
+    out
+}
+
+fn stage_into(out: &mut Vec<Block>, s: &StageReport) {
     let n = s.index;
     out.push(Block::Heading(
         2,

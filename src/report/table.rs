@@ -3,9 +3,9 @@
 use comfy_table::presets::UTF8_FULL_CONDENSED;
 use comfy_table::{Cell as TableCell, Color, ContentArrangement, Table};
 
-use super::model::Report;
-use super::rows::{document, Block, Cell};
-use super::Renderer;
+use super::model::StageReport;
+use super::rows::{head_blocks, stage_blocks, tail_blocks, Block, Cell};
+use super::stream::{Head, Renderer, Tail};
 use crate::analysis::Status;
 
 /// Renders a report as text tables.
@@ -45,15 +45,12 @@ fn color_of(s: Status) -> Color {
     }
 }
 
-impl Renderer for TableRenderer {
-    fn render(&self, report: &Report) -> String {
-        let mut out = String::new();
-        for block in document(report) {
+impl TableRenderer {
+    fn draw(&self, blocks: Vec<Block>, mut out: String) -> String {
+        for block in blocks {
             match block {
                 Block::Heading(level, text) => {
-                    if !out.is_empty() {
-                        out.push('\n');
-                    }
+                    out.push('\n');
                     out.push_str(&text);
                     out.push('\n');
                     let rule = if level == 1 { '=' } else { '-' };
@@ -104,5 +101,21 @@ impl Renderer for TableRenderer {
             }
         }
         out
+    }
+}
+
+impl Renderer for TableRenderer {
+    fn head(&mut self, head: &Head) -> String {
+        let text = self.draw(head_blocks(head), String::new());
+        text.trim_start_matches('\n').to_string()
+    }
+    fn stage(&mut self, stage: &StageReport) -> String {
+        self.draw(stage_blocks(stage), String::new())
+    }
+    fn tail(&mut self, tail: &Tail) -> String {
+        self.draw(tail_blocks(tail), String::new())
+    }
+    fn wants_summary(&self) -> bool {
+        true
     }
 }
