@@ -98,8 +98,11 @@ pub fn head_blocks(head: &Head) -> Vec<Block> {
     if let Some(b) = &head.board {
         out.push(Block::Heading(1, format!("Board: {b}")));
     }
-    out.push(Block::Heading(2, "Summary".to_string()));
-    out.push(summary(&head.summary));
+    // One stage needs no summary: its own block follows at once.
+    if head.summary.len() > 1 {
+        out.push(Block::Heading(2, "Summary".to_string()));
+        out.push(summary(&head.summary));
+    }
     out
 }
 
