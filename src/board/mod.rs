@@ -1,10 +1,12 @@
 //! Board files (files.md): read, merge each stage over the defaults, resolve into typed stages.
 
+mod fields;
 mod raw;
 mod resolve;
 
+pub use fields::flag_for;
 pub use raw::{Grade, RawBoard, RawClamp, RawLoad, RawStage};
-pub use resolve::{flag_for, resolve_stage, Origin};
+pub use resolve::{resolve_stage, Origin};
 
 use std::path::Path;
 
@@ -55,4 +57,54 @@ pub fn parse_board(file: &str, text: &str, lib: &Library) -> Result<Board> {
         name: raw.board,
         stages,
     })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn lib() -> Library {
+        Library::builtin().expect("shipped parts load")
+    }
+
+    fn relay_board(coil: &str, ambient: &str) -> String {
+        format!(
+            r#"{{"stages": [{{"name": "K1", "part": "demo-npn-40v", "supply_v": 12,
+                "logic_high_v": 3.3, "ambient_c": {ambient},
+                "load": {{"kind": "relay", "coil_ohms": {coil}}}, "clamp": {{"kind": "diode"}}}}]}}"#
+        )
+    }
+
+    #[test]
+    fn huge_and_tiny_numbers_are_refused_with_their_path() {
+        // Regression: 1e300 ohms used to reach the engine, where the load current underflowed to
+        // nothing and the stage could read as a pass.
+        let err = parse_board("b.json", &relay_board("1e300", "[0, 70]"), &lib())
+            .expect_err("refused")
+            .to_string();
+        assert!(
+            err.contains("b.json: stages[0].load.coil_ohms") && err.contains("pinlow accepts"),
+            "{err}"
+        );
+        let text = r#"{"stages": [{"name": "S", "part": "demo-npn-40v", "supply_v": 12,
+            "logic_high_v": 3.3, "load": {"kind": "current", "current_a": 1e-300}}]}"#;
+        let err = parse_board("b.json", text, &lib())
+            .expect_err("refused")
+            .to_string();
+        assert!(err.contains("load.current_a"), "{err}");
+    }
+
+    #[test]
+    fn ambient_below_the_copper_model_is_refused() {
+        // Regression: at -250 C the linear copper model (IEC 60028, alpha 0.00393/K) gives a
+        // negative coil resistance, read as a coil drawing no current: a silent pass.
+        let err = parse_board("b.json", &relay_board("400", "[-250, 25]"), &lib())
+            .expect_err("refused")
+            .to_string();
+        assert!(
+            err.contains("stages[0].ambient_c") && err.contains("-100 to 250"),
+            "{err}"
+        );
+        assert!(parse_board("b.json", &relay_board("400", "[-100, 250]"), &lib()).is_ok());
+    }
 }
