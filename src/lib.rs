@@ -28,6 +28,7 @@ pub mod load;
 pub mod parts;
 pub mod plot;
 pub mod quantity;
+pub mod read;
 pub mod report;
 pub mod stage;
 

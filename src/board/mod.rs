@@ -12,6 +12,7 @@ use std::path::Path;
 
 use crate::error::{parse_json, Error, Result};
 use crate::parts::Library;
+use crate::read::{read_text, BOARD_FILE_LIMIT};
 use crate::stage::Stage;
 
 /// A board ready for the engine.
@@ -25,10 +26,7 @@ pub struct Board {
 
 /// Read a board file from disk.
 pub fn read_board(path: &Path, lib: &Library) -> Result<Board> {
-    let text = std::fs::read_to_string(path).map_err(|source| Error::Io {
-        path: path.to_path_buf(),
-        source,
-    })?;
+    let text = read_text(path, BOARD_FILE_LIMIT)?;
     parse_board(&path.display().to_string(), &text, lib)
 }
 
@@ -106,5 +104,29 @@ mod tests {
             "{err}"
         );
         assert!(parse_board("b.json", &relay_board("400", "[-100, 250]"), &lib()).is_ok());
+    }
+
+    #[test]
+    fn deeply_nested_json_fails_cleanly() {
+        // 100 000 levels: as the stage list the wrong type stops the read at once; inside a load
+        // (an internally tagged enum, which serde buffers as a whole value first) serde_json
+        // stops at its recursion limit of 128 with an error rather than overflowing the stack.
+        let depth = 100_000;
+        let nest = format!("{}{}", "[".repeat(depth), "]".repeat(depth));
+        let boards = [
+            (format!(r#"{{"stages": {nest}}}"#), "expected a string"),
+            (
+                format!(
+                    r#"{{"stages": [{{"name": "S", "load": {{"kind": "current", "current_a": {nest}}}}}]}}"#
+                ),
+                "recursion limit exceeded",
+            ),
+        ];
+        for (text, needle) in boards {
+            let err = parse_board("deep.json", &text, &lib()).expect_err("refused");
+            assert!(matches!(err, Error::Json { .. }), "{err}");
+            let err = err.to_string();
+            assert!(err.contains("deep.json") && err.contains(needle), "{err}");
+        }
     }
 }
