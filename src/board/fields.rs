@@ -4,7 +4,7 @@
 use super::raw::RawLoad;
 use super::resolve::Origin;
 use crate::error::{Error, Result};
-use crate::quantity::limits::Span;
+use crate::quantity::limits::{show_number, Span};
 
 pub(super) fn raw_kind(raw: &RawLoad) -> &'static str {
     match raw {
@@ -75,7 +75,7 @@ pub(super) fn fraction(v: f64, at: &str) -> Result<f64> {
     if v.is_finite() && (0.0..1.0).contains(&v) {
         Ok(v)
     } else {
-        Err(Error::invalid(at, format!("{v} is not allowed: a fraction from 0 up to (not including) 1 is needed, e.g. 0.05 for ±5 %")))
+        Err(Error::invalid(at, format!("{} is not allowed: a fraction from 0 up to (not including) 1 is needed, e.g. 0.05 for ±5 %", show_number(v))))
     }
 }
 

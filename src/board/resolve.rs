@@ -7,7 +7,7 @@ use crate::error::{Error, Result};
 use crate::eseries::Series;
 use crate::load::{Clamp, Led, Load, Relay, Strip};
 use crate::parts::Library;
-use crate::quantity::limits::{AMPS, HENRIES, METRES, OHMS, VOLTS, WATTS};
+use crate::quantity::limits::{show_number, AMPS, HENRIES, METRES, OHMS, VOLTS, WATTS};
 use crate::quantity::{amps, celsius, format_engineering as fe, henries, ohms, volts, watts};
 use crate::stage::{PullDown, Stage};
 
@@ -231,7 +231,7 @@ impl Resolver<'_> {
                 if !(v.is_finite() && (1.0..=1000.0).contains(&v)) {
                     return Err(Error::invalid(
                         at,
-                        format!("{v} is not allowed: an overdrive from 1 to 1000 is needed (2 to 5 is usual)"),
+                        format!("{} is not allowed: an overdrive from 1 to 1000 is needed (2 to 5 is usual)", show_number(v)),
                     ));
                 }
                 v
@@ -295,7 +295,9 @@ impl Resolver<'_> {
                         return Err(Error::invalid(
                             at,
                             format!(
-                                "[{lo}, {hi}] is not allowed: ambient temperatures from {} to {} °C are needed",
+                                "[{}, {}] is not allowed: ambient temperatures from {} to {} °C are needed",
+                                show_number(lo),
+                                show_number(hi),
                                 AMBIENT_RANGE_C.start(),
                                 AMBIENT_RANGE_C.end()
                             ),
@@ -356,7 +358,7 @@ impl Resolver<'_> {
                 };
                 let must = match must_operate_fraction {
                     Some(v) if v.is_finite() && *v > 0.0 && *v <= 1.0 => *v,
-                    Some(v) => return Err(Error::invalid(key("must_operate_fraction"), format!("{v} is not allowed: a fraction above 0 and at most 1 is needed (0.75 is usual)"))),
+                    Some(v) => return Err(Error::invalid(key("must_operate_fraction"), format!("{} is not allowed: a fraction above 0 and at most 1 is needed (0.75 is usual)", show_number(*v)))),
                     None => {
                         self.assume(format!("must-operate voltage {} of rated assumed [practice]", pct(DEFAULT_MUST_OPERATE_FRACTION)));
                         DEFAULT_MUST_OPERATE_FRACTION

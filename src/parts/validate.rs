@@ -5,7 +5,9 @@ use super::part::{GainPoint, Part, VbeSatPoint, VceSatPoint};
 use super::record::{GainRecord, PartRecord};
 use super::PartSource;
 use crate::error::{Error, Result};
-use crate::quantity::limits::{Span, AMPS, GAIN, KELVIN_PER_WATT, LEAKAGE_AMPS, SECONDS, VOLTS};
+use crate::quantity::limits::{
+    show_number, Span, AMPS, GAIN, KELVIN_PER_WATT, LEAKAGE_AMPS, SECONDS, VOLTS,
+};
 use crate::quantity::{amps, celsius, kelvin_per_watt, seconds, volts};
 
 /// Gummel-Poon beta temperature exponent XTB when a part gives none: 1.5
@@ -65,7 +67,10 @@ pub fn part_from_record(rec: &PartRecord, file: &str, source: PartSource) -> Res
         Some(x) => {
             return Err(Error::invalid(
                 at("gain_temp_exponent"),
-                format!("{x} is not allowed: a number from 0 to 5 is needed (1.5 is typical)"),
+                format!(
+                    "{} is not allowed: a number from 0 to 5 is needed (1.5 is typical)",
+                    show_number(x)
+                ),
             ))
         }
         None => DEFAULT_GAIN_TEMP_EXPONENT,

@@ -79,17 +79,30 @@ pub const KELVIN_PER_WATT: Span = Span {
     unit: "K/W",
 };
 
+/// A number as a user would write it: plain (`0.05`, `4700`) in everyday magnitudes, with an
+/// exponent (`1e300`, `1e-300`) outside them, so a message never runs to hundreds of digits.
+pub fn show_number(v: f64) -> String {
+    let a = v.abs();
+    if a == 0.0 || !a.is_finite() || (1e-4..1e15).contains(&a) {
+        format!("{v}")
+    } else {
+        format!("{v:e}")
+    }
+}
+
 impl Span {
     /// `v` when it is finite, positive and inside the span; otherwise why not, in words.
     pub fn check(&self, v: f64) -> Result<f64, String> {
         if !(v.is_finite() && v > 0.0) {
             return Err(format!(
-                "{v} is not allowed: a positive finite number is needed"
+                "{} is not allowed: a positive finite number is needed",
+                show_number(v)
             ));
         }
         if v < self.min || v > self.max {
             return Err(format!(
-                "{v} is not allowed: pinlow accepts {} to {}",
+                "{} is not allowed: pinlow accepts {} to {}",
+                show_number(v),
                 self.show(self.min),
                 self.show(self.max)
             ));
@@ -117,11 +130,24 @@ mod tests {
             assert!(e.contains("positive finite"), "{bad}: {e}");
         }
         let e = OHMS.check(1e300).expect_err("1e300 ohms refused");
-        assert!(e.contains("1 mΩ to 1000 GΩ"), "{e}");
+        assert!(
+            e.starts_with("1e300 is not allowed") && e.contains("1 mΩ to 1000 GΩ"),
+            "{e}"
+        );
         let e = AMPS.check(1e-300).expect_err("1e-300 amps refused");
         assert!(e.contains("1 pA"), "{e}");
         let e = GAIN.check(1e9).expect_err("gain 1e9 refused");
         assert!(e.contains("0.001 to 10000000"), "{e}");
+    }
+
+    #[test]
+    fn numbers_in_messages_stay_short() {
+        assert_eq!(show_number(1e300), "1e300");
+        assert_eq!(show_number(-1e-300), "-1e-300");
+        assert_eq!(show_number(0.05), "0.05");
+        assert_eq!(show_number(4700.0), "4700");
+        assert_eq!(show_number(0.0), "0");
+        assert_eq!(show_number(f64::NAN), "NaN");
     }
 
     #[test]
