@@ -88,7 +88,10 @@ pub enum Command {
         stage: StageArgs,
     },
     /// List, show or check part files.
-    #[command(subcommand)]
+    #[command(
+        subcommand,
+        after_help = "Examples:\n  pinlow parts list\n  pinlow parts show 2N3904\n  pinlow parts check my-parts/*.json"
+    )]
     Parts(PartsCommand),
 }
 

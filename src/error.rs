@@ -124,7 +124,7 @@ impl Error {
         // serde appends " at line L column C" to its message; we already said where.
         let text = err.to_string();
         let message = match text.rfind(" at line ") {
-            Some(i) => text[..i].to_string(),
+            Some(i) => text.get(..i).unwrap_or(&text).to_string(),
             None => text,
         };
         Error::Json {
@@ -163,6 +163,6 @@ fn non_finite_at(text: &str, line: usize, column: usize) -> bool {
         .nth(column.saturating_sub(1))
         .map(|(i, _)| i)
         .unwrap_or(l.len());
-    let rest = l[start..].trim_start_matches('-');
+    let rest = l.get(start..).unwrap_or_default().trim_start_matches('-');
     rest.starts_with("NaN") || rest.starts_with("Infinity") || rest.starts_with("inf")
 }

@@ -184,13 +184,11 @@ impl Series {
     /// E24 gives 6 * 24 + 1 = 145 values.
     pub fn values(self) -> impl DoubleEndedIterator<Item = Resistance> + Clone {
         let mantissas = self.mantissas();
-        let n = mantissas.len();
-        // Index i is mantissa i % n in decade 10^(i / n - 1): 100 / 10 = 10 ohm first, and the
-        // last index 6n is 100 * 10^5 = 10 Mohm.
-        (0..=6 * n).map(move |i| {
-            let k = (i / n) as i32 - 1;
-            ohms(decimal(mantissas[i % n], k))
-        })
+        // Decades 10^-1 .. 10^4 of the three-digit mantissas: 100 / 10 = 10 ohm first; then the
+        // series' first value one decade up, 100 * 10^5 = 10 Mohm, closes the range.
+        (-1..=4)
+            .flat_map(move |k| mantissas.iter().map(move |&m| ohms(decimal(m, k))))
+            .chain(std::iter::once(ohms(decimal(100, 5))))
     }
 }
 

@@ -12,16 +12,16 @@ fn steps(path: &str) -> Option<Vec<Step>> {
     let mut out = Vec::new();
     for part in path.split('.') {
         let (key, mut rest) = match part.find('[') {
-            Some(i) => (&part[..i], &part[i..]),
+            Some(i) => (part.get(..i)?, part.get(i..)?),
             None => (part, ""),
         };
         if !key.is_empty() {
             out.push(Step::Key(key.to_string()));
         }
         while let Some(stripped) = rest.strip_prefix('[') {
-            let end = stripped.find(']')?;
-            out.push(Step::Index(stripped[..end].parse().ok()?));
-            rest = &stripped[end + 1..];
+            let (index, after) = stripped.split_once(']')?;
+            out.push(Step::Index(index.parse().ok()?));
+            rest = after;
         }
     }
     Some(out)
@@ -41,14 +41,14 @@ pub fn locate(text: &str, path: &str) -> Option<(usize, usize)> {
         }
     }
     let pos = skip_ws(bytes, pos);
-    let before = &text[..pos.min(text.len())];
+    let before = text.get(..pos.min(text.len()))?;
     let line = before.matches('\n').count() + 1;
     let column = before.rsplit('\n').next().map_or(0, |l| l.chars().count()) + 1;
     Some((line, column))
 }
 
 fn skip_ws(b: &[u8], mut pos: usize) -> usize {
-    while pos < b.len() && b[pos].is_ascii_whitespace() {
+    while b.get(pos).is_some_and(u8::is_ascii_whitespace) {
         pos += 1;
     }
     pos
@@ -57,8 +57,8 @@ fn skip_ws(b: &[u8], mut pos: usize) -> usize {
 /// Position just after a string that starts at `pos` (on its opening quote).
 fn skip_string(b: &[u8], mut pos: usize) -> Option<usize> {
     pos += 1;
-    while pos < b.len() {
-        match b[pos] {
+    while let Some(c) = b.get(pos) {
+        match c {
             b'\\' => pos += 2,
             b'"' => return Some(pos + 1),
             _ => pos += 1,
@@ -75,15 +75,15 @@ fn skip_value(b: &[u8], pos: usize) -> Option<usize> {
         b'{' | b'[' => {
             let mut depth = 0usize;
             let mut p = pos;
-            while p < b.len() {
-                match b[p] {
+            while let Some(c) = b.get(p) {
+                match c {
                     b'"' => {
                         p = skip_string(b, p)?;
                         continue;
                     }
                     b'{' | b'[' => depth += 1,
                     b'}' | b']' => {
-                        depth -= 1;
+                        depth = depth.saturating_sub(1);
                         if depth == 0 {
                             return Some(p + 1);
                         }
@@ -96,7 +96,9 @@ fn skip_value(b: &[u8], pos: usize) -> Option<usize> {
         }
         _ => {
             let mut p = pos;
-            while p < b.len() && !matches!(b[p], b',' | b'}' | b']') && !b[p].is_ascii_whitespace()
+            while b
+                .get(p)
+                .is_some_and(|c| !matches!(c, b',' | b'}' | b']') && !c.is_ascii_whitespace())
             {
                 p += 1;
             }
@@ -118,7 +120,7 @@ fn find_member(b: &[u8], pos: usize, key: &str) -> Option<usize> {
             }
             b'"' => {
                 let end = skip_string(b, p)?;
-                let name = std::str::from_utf8(&b[p + 1..end - 1]).ok()?;
+                let name = std::str::from_utf8(b.get(p + 1..end - 1)?).ok()?;
                 p = skip_ws(b, end);
                 if b.get(p) != Some(&b':') {
                     return None;

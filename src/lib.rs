@@ -4,6 +4,19 @@
 //! [`board`]) goes into the engine ([`analysis::analyse`]), which returns one
 //! [`report::StageReport`] per stage; the renderers in [`report`] turn a [`report::Report`] into a
 //! table, JSON or Markdown and never compute anything themselves.
+//!
+//! No user input may panic the library: outside tests, `unwrap`, `expect`, `panic!` and
+//! unchecked indexing or string slicing are refused by the lints below.
+#![cfg_attr(
+    not(test),
+    deny(
+        clippy::unwrap_used,
+        clippy::expect_used,
+        clippy::panic,
+        clippy::indexing_slicing,
+        clippy::string_slice
+    )
+)]
 
 pub mod analysis;
 pub mod app;
@@ -16,6 +29,7 @@ pub mod load;
 pub mod parts;
 pub mod plot;
 pub mod quantity;
+pub mod read;
 pub mod report;
 pub mod stage;
 

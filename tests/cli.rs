@@ -213,21 +213,28 @@ fn json_report_has_the_contract_fields() {
 
 #[test]
 fn every_command_has_help_with_examples_and_a_version() {
-    for args in [
-        vec!["--help"],
-        vec!["size", "--help"],
-        vec!["audit", "--help"],
-        vec!["parts", "list", "--help"],
-        vec!["parts", "show", "--help"],
-        vec!["parts", "check", "--help"],
-    ] {
+    // Every command path of the clap definition, so a new command cannot be forgotten here.
+    fn paths(cmd: &clap::Command, prefix: Vec<String>, out: &mut Vec<Vec<String>>) {
+        out.push(prefix.clone());
+        for sub in cmd.get_subcommands().filter(|s| s.get_name() != "help") {
+            let mut p = prefix.clone();
+            p.push(sub.get_name().to_string());
+            paths(sub, p, out);
+        }
+    }
+    let mut all = Vec::new();
+    paths(&Cli::command(), Vec::new(), &mut all);
+    assert!(all.len() >= 8, "{all:?}");
+    for path in all {
+        let mut args: Vec<&str> = path.iter().map(String::as_str).collect();
+        args.push("--help");
         let (code, out, _) = run(&args);
-        assert_eq!(code, 0);
-        assert!(out.contains("Example"), "{args:?}: {out}");
+        assert_eq!(code, 0, "{args:?}");
+        assert!(out.contains("Example"), "{args:?} has no example: {out}");
     }
     let (code, out, _) = run(&["--version"]);
     assert_eq!(code, 0);
-    assert!(out.starts_with("pinlow "));
+    assert_eq!(out.trim(), format!("pinlow {}", env!("CARGO_PKG_VERSION")));
 }
 
 #[test]

@@ -92,7 +92,8 @@ pub struct SizedFlags {
 
 /// List the resistors of a stage with their worst powers and the ratings they are held to.
 pub fn resistor_uses(stage: &Stage, wc: &WorstCase, sized: SizedFlags) -> Vec<ResistorUse> {
-    let largest = watts(POWER_RATINGS_W[POWER_RATINGS_W.len() - 1]);
+    let [.., largest_w] = POWER_RATINGS_W;
+    let largest = watts(largest_w);
     let mut out = Vec::new();
     let mut push = |role: Role, value: Resistance, was_sized: bool, power: Power| {
         let recommended = power_rating_for(power);

@@ -22,19 +22,19 @@ pub fn list(lib: &Library, format: Format) -> String {
     let rows: Vec<Vec<String>> = lib
         .iter()
         .map(|p| {
-            let g = &p.gain_min[0];
             let best = p
                 .gain_min
                 .iter()
                 .max_by(|a, b| a.hfe.total_cmp(&b.hfe))
-                .unwrap_or(g);
+                .map(|g| format!("{} @ {}", trim(g.hfe), fe(g.ic.base(), "A")))
+                .unwrap_or_else(|| "-".to_string());
             vec![
                 p.id.clone(),
                 p.polarity.clone(),
                 p.package.clone(),
                 trim(p.vceo.base()),
                 trim(p.ic_max.base()),
-                format!("{} @ {}", trim(best.hfe), fe(best.ic.base(), "A")),
+                best,
                 p.provenance.clone(),
             ]
         })

@@ -1,11 +1,13 @@
 //! Resolve a raw stage (own fields over the board defaults over the model's defaults) into a
 //! typed [`Stage`], validating every value where it stands and listing each default taken.
 
+use super::fields::{flag_for, fraction, pct, raw_kind, sub_place, within};
 use super::raw::{Grade, RawClamp, RawLoad, RawStage};
 use crate::error::{Error, Result};
 use crate::eseries::Series;
 use crate::load::{Clamp, Led, Load, Relay, Strip};
 use crate::parts::Library;
+use crate::quantity::limits::{show_number, AMPS, HENRIES, METRES, OHMS, VOLTS, WATTS};
 use crate::quantity::{amps, celsius, format_engineering as fe, henries, ohms, volts, watts};
 use crate::stage::{PullDown, Stage};
 
@@ -27,6 +29,12 @@ pub const DEFAULT_CLAMP_FORWARD_V: f64 = 1.0;
 pub const DEFAULT_RESISTOR_TOLERANCE: f64 = 0.05;
 /// Overdrive when none is given [practice: 2 to 5].
 pub const DEFAULT_OVERDRIVE: f64 = 2.0;
+
+/// Ambient temperatures the models hold for, C [practice]. The linear copper model
+/// (IEC 60028) gives a negative coil resistance below about -234.5 C, which would read as a coil
+/// that draws no current; -100 .. 250 C is far wider than any rated part and keeps every
+/// temperature model positive.
+pub const AMBIENT_RANGE_C: std::ops::RangeInclusive<f64> = -100.0..=250.0;
 
 /// Where a stage was written: a board file or the command line.
 #[derive(Clone, Debug)]
@@ -132,7 +140,7 @@ impl Resolver<'_> {
         let (supply, at) = self
             .pick("supply_v", |r| r.supply_v)
             .ok_or_else(|| self.missing("supply_v", "the supply voltage"))?;
-        let supply = positive(supply, &at)?;
+        let supply = within(supply, VOLTS, &at)?;
         let supply_tolerance = match self.pick("supply_tolerance", |r| r.supply_tolerance) {
             Some((v, at)) => fraction(v, &at)?,
             None => {
@@ -146,10 +154,10 @@ impl Resolver<'_> {
         let (logic_high, at_high) = self
             .pick("logic_high_v", |r| r.logic_high_v)
             .ok_or_else(|| self.missing("logic_high_v", "the pin's logic-high voltage"))?;
-        let logic_high = positive(logic_high, &at_high)?;
+        let logic_high = within(logic_high, VOLTS, &at_high)?;
         let logic_high_min = match self.pick("logic_high_min_v", |r| r.logic_high_min_v) {
             Some((v, at)) => {
-                let v = positive(v, &at)?;
+                let v = within(v, VOLTS, &at)?;
                 if v > logic_high {
                     return Err(Error::invalid(
                         at,
@@ -168,7 +176,7 @@ impl Resolver<'_> {
             }
         };
         let pin_limit = match self.pick("pin_limit_a", |r| r.pin_limit_a) {
-            Some((v, at)) => positive(v, &at)?,
+            Some((v, at)) => within(v, AMPS, &at)?,
             None => {
                 self.assume(format!(
                     "pin limit {} assumed [practice, conservative]",
@@ -184,11 +192,11 @@ impl Resolver<'_> {
         let load = self.load(&load, &load_at, supply)?;
         let clamp = self.clamp(&load)?;
         let base_resistor = match self.pick("base_resistor_ohms", |r| r.base_resistor_ohms) {
-            Some((v, at)) => Some(ohms(positive(v, &at)?)),
+            Some((v, at)) => Some(ohms(within(v, OHMS, &at)?)),
             None => None,
         };
         let pull_down = match self.pick("pull_down_ohms", |r| r.pull_down_ohms) {
-            Some((Some(v), at)) => PullDown::Given(ohms(positive(v, &at)?)),
+            Some((Some(v), at)) => PullDown::Given(ohms(within(v, OHMS, &at)?)),
             Some((None, _)) => PullDown::None,
             None if base_resistor.is_some() => PullDown::None,
             None => PullDown::Sized,
@@ -215,7 +223,7 @@ impl Resolver<'_> {
             }
         };
         let resistor_rating = match self.pick("resistor_rating_w", |r| r.resistor_rating_w) {
-            Some((v, at)) => Some(watts(positive(v, &at)?)),
+            Some((v, at)) => Some(watts(within(v, WATTS, &at)?)),
             None => None,
         };
         let overdrive = match self.pick("overdrive", |r| r.overdrive) {
@@ -223,7 +231,7 @@ impl Resolver<'_> {
                 if !(v.is_finite() && (1.0..=1000.0).contains(&v)) {
                     return Err(Error::invalid(
                         at,
-                        format!("{v} is not allowed: an overdrive from 1 to 1000 is needed (2 to 5 is usual)"),
+                        format!("{} is not allowed: an overdrive from 1 to 1000 is needed (2 to 5 is usual)", show_number(v)),
                     ));
                 }
                 v
@@ -282,11 +290,17 @@ impl Resolver<'_> {
                 }
                 (Some([lo, hi]), None) => {
                     let at = self.place("ambient_c", from_defaults);
-                    let ok = |t: f64| t.is_finite() && (-273.15..=400.0).contains(&t);
+                    let ok = |t: f64| t.is_finite() && AMBIENT_RANGE_C.contains(&t);
                     if !ok(lo) || !ok(hi) {
                         return Err(Error::invalid(
                             at,
-                            format!("[{lo}, {hi}] is not allowed: temperatures from -273.15 to 400 °C are needed"),
+                            format!(
+                                "[{}, {}] is not allowed: ambient temperatures from {} to {} °C are needed",
+                                show_number(lo),
+                                show_number(hi),
+                                AMBIENT_RANGE_C.start(),
+                                AMBIENT_RANGE_C.end()
+                            ),
                         ));
                     }
                     if lo > hi {
@@ -312,7 +326,7 @@ impl Resolver<'_> {
         let key = |k: &str| -> String { sub_place(at, k, self.origin, "load", raw_kind(raw)) };
         Ok(match raw {
             RawLoad::Current { current_a } => Load::Current {
-                current: amps(positive(*current_a, &key("current_a"))?),
+                current: amps(within(*current_a, AMPS, &key("current_a"))?),
             },
             RawLoad::Relay {
                 coil_ohms,
@@ -321,7 +335,7 @@ impl Resolver<'_> {
                 must_operate_fraction,
                 inductance_h,
             } => {
-                let coil = positive(*coil_ohms, &key("coil_ohms"))?;
+                let coil = within(*coil_ohms, OHMS, &key("coil_ohms"))?;
                 let tolerance = match coil_tolerance {
                     Some(v) => fraction(*v, &key("coil_tolerance"))?,
                     None => {
@@ -333,7 +347,7 @@ impl Resolver<'_> {
                     }
                 };
                 let rated = match rated_v {
-                    Some(v) => positive(*v, &key("rated_v"))?,
+                    Some(v) => within(*v, VOLTS, &key("rated_v"))?,
                     None => {
                         self.assume(format!(
                             "coil rated voltage {} assumed (the nominal supply)",
@@ -344,14 +358,14 @@ impl Resolver<'_> {
                 };
                 let must = match must_operate_fraction {
                     Some(v) if v.is_finite() && *v > 0.0 && *v <= 1.0 => *v,
-                    Some(v) => return Err(Error::invalid(key("must_operate_fraction"), format!("{v} is not allowed: a fraction above 0 and at most 1 is needed (0.75 is usual)"))),
+                    Some(v) => return Err(Error::invalid(key("must_operate_fraction"), format!("{} is not allowed: a fraction above 0 and at most 1 is needed (0.75 is usual)", show_number(*v)))),
                     None => {
                         self.assume(format!("must-operate voltage {} of rated assumed [practice]", pct(DEFAULT_MUST_OPERATE_FRACTION)));
                         DEFAULT_MUST_OPERATE_FRACTION
                     }
                 };
                 let inductance = match inductance_h {
-                    Some(v) => Some(henries(positive(*v, &key("inductance_h"))?)),
+                    Some(v) => Some(henries(within(*v, HENRIES, &key("inductance_h"))?)),
                     None => None,
                 };
                 Load::Relay(Relay {
@@ -377,13 +391,13 @@ impl Resolver<'_> {
                         format!("{count} is not allowed: 1 to 1000 LEDs in series are needed"),
                     ));
                 }
-                let vf = positive(*forward_v, &key("forward_v"))?;
+                let vf = within(*forward_v, VOLTS, &key("forward_v"))?;
                 let lo = match forward_min_v {
-                    Some(v) => Some(positive(*v, &key("forward_min_v"))?),
+                    Some(v) => Some(within(*v, VOLTS, &key("forward_min_v"))?),
                     None => None,
                 };
                 let hi = match forward_max_v {
-                    Some(v) => Some(positive(*v, &key("forward_max_v"))?),
+                    Some(v) => Some(within(*v, VOLTS, &key("forward_max_v"))?),
                     None => None,
                 };
                 if lo.is_none() || hi.is_none() {
@@ -397,13 +411,13 @@ impl Resolver<'_> {
                 if lo > vf || vf > hi {
                     return Err(Error::invalid(key("forward_v"), format!("the forward voltages must run min <= nominal <= max; got {lo} <= {vf} <= {hi} V")));
                 }
-                let current = positive(*current_a, &key("current_a"))?;
+                let current = within(*current_a, AMPS, &key("current_a"))?;
                 let max_current = match max_current_a {
-                    Some(v) => Some(amps(positive(*v, &key("max_current_a"))?)),
+                    Some(v) => Some(amps(within(*v, AMPS, &key("max_current_a"))?)),
                     None => None,
                 };
                 let resistor = match resistor_ohms {
-                    Some(v) => Some(ohms(positive(*v, &key("resistor_ohms"))?)),
+                    Some(v) => Some(ohms(within(*v, OHMS, &key("resistor_ohms"))?)),
                     None => None,
                 };
                 Load::Led(Led {
@@ -421,9 +435,9 @@ impl Resolver<'_> {
                 current_per_m_a,
                 length_m,
             } => Load::Strip(Strip {
-                rated: volts(positive(*rated_v, &key("rated_v"))?),
-                current_per_metre: amps(positive(*current_per_m_a, &key("current_per_m_a"))?),
-                length_m: positive(*length_m, &key("length_m"))?,
+                rated: volts(within(*rated_v, VOLTS, &key("rated_v"))?),
+                current_per_metre: amps(within(*current_per_m_a, AMPS, &key("current_per_m_a"))?),
+                length_m: within(*length_m, METRES, &key("length_m"))?,
             }),
         })
     }
@@ -439,8 +453,9 @@ impl Resolver<'_> {
         };
         let key = |k: &str| -> String { sub_place(&at, k, self.origin, "clamp", kind) };
         let opt_v = |v: &Option<f64>, k: &str| -> Result<Option<f64>> {
+            let span = if k.ends_with("_a") { AMPS } else { VOLTS };
             match v {
-                Some(x) => Ok(Some(positive(*x, &key(k))?)),
+                Some(x) => Ok(Some(within(*x, span, &key(k))?)),
                 None => Ok(None),
             }
         };
@@ -461,7 +476,7 @@ impl Resolver<'_> {
                 reverse_v,
                 current_a,
             } => Clamp::Zener {
-                zener: volts(positive(*zener_v, &key("zener_v"))?),
+                zener: volts(within(*zener_v, VOLTS, &key("zener_v"))?),
                 forward: volts(self.clamp_forward(opt_v(forward_v, "forward_v")?)),
                 reverse: opt_v(reverse_v, "reverse_v")?.map(volts),
                 current: opt_v(current_a, "current_a")?.map(amps),
@@ -487,87 +502,4 @@ impl Resolver<'_> {
             DEFAULT_CLAMP_FORWARD_V
         })
     }
-}
-
-fn raw_kind(raw: &RawLoad) -> &'static str {
-    match raw {
-        RawLoad::Current { .. } => "current",
-        RawLoad::Relay { .. } => "relay",
-        RawLoad::Led { .. } => "led",
-        RawLoad::Strip { .. } => "strip",
-    }
-}
-
-/// The place of a field inside the load or clamp object.
-fn sub_place(at: &str, key: &str, origin: &Origin, object: &str, kind: &str) -> String {
-    match origin {
-        Origin::File { .. } => format!("{at}.{key}"),
-        Origin::Flags => flag_for(&format!("{object}.{kind}.{key}")).to_string(),
-    }
-}
-
-/// The command-line flag that sets a field.
-pub fn flag_for(key: &str) -> &'static str {
-    match key {
-        "part" => "--part",
-        "supply_v" => "--supply",
-        "supply_tolerance" => "--supply-tolerance",
-        "logic_high_v" => "--logic-high",
-        "logic_high_min_v" => "--logic-high-min",
-        "pin_limit_a" => "--pin-limit",
-        "ambient_c" => "--ambient",
-        "grade" => "--grade",
-        "load" => "--load",
-        "clamp" => "--clamp",
-        "base_resistor_ohms" => "--base-resistor",
-        "pull_down_ohms" => "--pull-down",
-        "resistor_tolerance" => "--resistor-tolerance",
-        "resistor_rating_w" => "--resistor-rating",
-        "series" => "--series",
-        "overdrive" => "--overdrive",
-        "load.current.current_a" | "load.led.current_a" => "--current",
-        "load.relay.coil_ohms" => "--coil",
-        "load.relay.coil_tolerance" => "--coil-tolerance",
-        "load.relay.rated_v" => "--coil-rated",
-        "load.relay.must_operate_fraction" => "--must-operate",
-        "load.relay.inductance_h" => "--inductance",
-        "load.led.count" => "--led-count",
-        "load.led.forward_v" => "--led-vf",
-        "load.led.forward_min_v" => "--led-vf-min",
-        "load.led.forward_max_v" => "--led-vf-max",
-        "load.led.max_current_a" => "--led-max-current",
-        "load.led.resistor_ohms" => "--led-resistor",
-        "load.strip.rated_v" => "--strip-voltage",
-        "load.strip.current_per_m_a" => "--strip-current-per-metre",
-        "load.strip.length_m" => "--strip-length",
-        k if k.ends_with(".forward_v") => "--clamp-forward",
-        k if k.ends_with(".zener_v") => "--zener",
-        k if k.ends_with(".reverse_v") => "--clamp-reverse",
-        k if k.ends_with(".current_a") => "--clamp-current",
-        _ => "the stage flags",
-    }
-}
-
-fn positive(v: f64, at: &str) -> Result<f64> {
-    if v.is_finite() && v > 0.0 {
-        Ok(v)
-    } else {
-        Err(Error::invalid(
-            at,
-            format!("{v} is not allowed: a positive finite number is needed"),
-        ))
-    }
-}
-
-fn fraction(v: f64, at: &str) -> Result<f64> {
-    if v.is_finite() && (0.0..1.0).contains(&v) {
-        Ok(v)
-    } else {
-        Err(Error::invalid(at, format!("{v} is not allowed: a fraction from 0 up to (not including) 1 is needed, e.g. 0.05 for ±5 %")))
-    }
-}
-
-fn pct(f: f64) -> String {
-    let s = format!("{:.1}", f * 100.0);
-    format!("{} %", s.strip_suffix(".0").unwrap_or(&s))
 }

@@ -9,6 +9,7 @@ use super::part::Part;
 use super::record::PartRecord;
 use super::validate::part_from_record;
 use crate::error::{parse_json, Error, Result};
+use crate::read::{read_text, PART_FILE_LIMIT};
 
 /// Where a part came from.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -170,10 +171,7 @@ fn load_path(path: &Path) -> Result<Vec<Part>> {
 
 /// Read and validate one part file.
 pub fn check_file(path: &Path) -> Result<Part> {
-    let text = std::fs::read_to_string(path).map_err(|source| Error::Io {
-        path: path.to_path_buf(),
-        source,
-    })?;
+    let text = read_text(path, PART_FILE_LIMIT)?;
     let label = path.display().to_string();
     let rec: PartRecord = parse_json(&label, &text)?;
     part_from_record(&rec, &label, PartSource::File(path.to_path_buf()))

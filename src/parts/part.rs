@@ -98,8 +98,11 @@ impl Part {
     pub fn vce_sat_max_at(&self, ic: Current) -> Voltage {
         let x = ic.base();
         let pts = &self.vce_sat_max;
-        let first = &pts[0];
-        let last = &pts[pts.len() - 1];
+        // `part_from_record` never builds a part without points; with none, no figure is known,
+        // and an infinite VCE(sat) fails every check it reaches rather than passing one.
+        let (Some(first), Some(last)) = (pts.first(), pts.last()) else {
+            return volts(f64::INFINITY);
+        };
         if x <= first.ic.base() {
             return first.v;
         }
@@ -131,8 +134,11 @@ impl Part {
 /// Gain at `ic` from sorted points: log-log between points, flat below, 1/IC above.
 fn gain_at(points: &[GainPoint], ic: Current) -> f64 {
     let x = ic.base();
-    let first = &points[0];
-    let last = &points[points.len() - 1];
+    // `part_from_record` never builds a part without points; with none, no gain is known and
+    // zero gain is the conservative answer.
+    let (Some(first), Some(last)) = (points.first(), points.last()) else {
+        return 0.0;
+    };
     if x <= first.ic.base() {
         return first.hfe;
     }
@@ -222,6 +228,18 @@ pub(crate) mod tests {
             0.6,
             max_relative = 1e-12
         );
+    }
+
+    #[test]
+    fn a_part_without_points_gives_conservative_figures_not_a_panic() {
+        // Regression for the indexing lint: `pts[0]` used to panic on an empty list. Parts from
+        // files always have points; one built by hand without them gets no gain and an infinite
+        // VCE(sat), which fail the checks instead of passing them.
+        let mut p = demo40();
+        p.gain_min.clear();
+        p.vce_sat_max.clear();
+        assert_eq!(p.gain_min_at(amps(0.02)), 0.0);
+        assert!(p.vce_sat_max_at(amps(0.02)).base().is_infinite());
     }
 
     #[test]

@@ -5,6 +5,9 @@ use super::part::{GainPoint, Part, VbeSatPoint, VceSatPoint};
 use super::record::{GainRecord, PartRecord};
 use super::PartSource;
 use crate::error::{Error, Result};
+use crate::quantity::limits::{
+    show_number, Span, AMPS, GAIN, KELVIN_PER_WATT, LEAKAGE_AMPS, SECONDS, VOLTS,
+};
 use crate::quantity::{amps, celsius, kelvin_per_watt, seconds, volts};
 
 /// Gummel-Poon beta temperature exponent XTB when a part gives none: 1.5
@@ -34,18 +37,13 @@ pub fn part_from_record(rec: &PartRecord, file: &str, source: PartSource) -> Res
             ),
         ));
     }
-    let positive = |path: &str, v: f64| -> Result<f64> {
-        if v.is_finite() && v > 0.0 {
-            Ok(v)
-        } else {
-            Err(Error::invalid(
-                at(path),
-                format!("{v} is not allowed: a positive finite number is needed"),
-            ))
-        }
+    // Every figure must be positive, finite and inside its span (quantity::limits).
+    let positive = |path: &str, v: f64, span: Span| -> Result<f64> {
+        span.check(v)
+            .map_err(|message| Error::invalid(at(path), message))
     };
-    let vceo = positive("vceo_max_v", rec.vceo_max_v)?;
-    let ic_max = positive("ic_max_a", rec.ic_max_a)?;
+    let vceo = positive("vceo_max_v", rec.vceo_max_v, VOLTS)?;
+    let ic_max = positive("ic_max_a", rec.ic_max_a, AMPS)?;
     let tj_max = rec.tj_max_c;
     if !(tj_max.is_finite() && tj_max > 25.0 && tj_max < 400.0) {
         return Err(Error::invalid(
@@ -55,7 +53,7 @@ pub fn part_from_record(rec: &PartRecord, file: &str, source: PartSource) -> Res
             ),
         ));
     }
-    let rth = positive("r_th_ja_k_per_w", rec.r_th_ja_k_per_w)?;
+    let rth = positive("r_th_ja_k_per_w", rec.r_th_ja_k_per_w, KELVIN_PER_WATT)?;
     let gain_min = gain_points(&rec.gain_min, "gain_min", &positive, &at)?;
     let gain_max = match &rec.gain_max {
         Some(points) => {
@@ -69,7 +67,10 @@ pub fn part_from_record(rec: &PartRecord, file: &str, source: PartSource) -> Res
         Some(x) => {
             return Err(Error::invalid(
                 at("gain_temp_exponent"),
-                format!("{x} is not allowed: a number from 0 to 5 is needed (1.5 is typical)"),
+                format!(
+                    "{} is not allowed: a number from 0 to 5 is needed (1.5 is typical)",
+                    show_number(x)
+                ),
             ))
         }
         None => DEFAULT_GAIN_TEMP_EXPONENT,
@@ -84,9 +85,9 @@ pub fn part_from_record(rec: &PartRecord, file: &str, source: PartSource) -> Res
     for (i, p) in rec.vce_sat_max.iter().enumerate() {
         let path = |k: &str| format!("vce_sat_max[{i}].{k}");
         vce_sat_max.push(VceSatPoint {
-            ic: amps(positive(&path("ic_a"), p.ic_a)?),
-            ib: amps(positive(&path("ib_a"), p.ib_a)?),
-            v: volts(positive(&path("v"), p.v)?),
+            ic: amps(positive(&path("ic_a"), p.ic_a, AMPS)?),
+            ib: amps(positive(&path("ib_a"), p.ib_a, AMPS)?),
+            v: volts(positive(&path("v"), p.v, VOLTS)?),
         });
     }
     sorted(rec.vce_sat_max.iter().map(|p| p.ic_a), "vce_sat_max", &at)?;
@@ -96,8 +97,8 @@ pub fn part_from_record(rec: &PartRecord, file: &str, source: PartSource) -> Res
     let mut vbe_sat = Vec::new();
     for (i, p) in rec.vbe_sat.iter().enumerate() {
         let path = |k: &str| format!("vbe_sat[{i}].{k}");
-        let min = positive(&path("min_v"), p.min_v)?;
-        let max = positive(&path("max_v"), p.max_v)?;
+        let min = positive(&path("min_v"), p.min_v, VOLTS)?;
+        let max = positive(&path("max_v"), p.max_v, VOLTS)?;
         if min > max {
             return Err(Error::invalid(
                 at(&path("min_v")),
@@ -105,19 +106,19 @@ pub fn part_from_record(rec: &PartRecord, file: &str, source: PartSource) -> Res
             ));
         }
         vbe_sat.push(VbeSatPoint {
-            ic: amps(positive(&path("ic_a"), p.ic_a)?),
-            ib: amps(positive(&path("ib_a"), p.ib_a)?),
+            ic: amps(positive(&path("ic_a"), p.ic_a, AMPS)?),
+            ib: amps(positive(&path("ib_a"), p.ib_a, AMPS)?),
             min: volts(min),
             max: volts(max),
         });
     }
     sorted(rec.vbe_sat.iter().map(|p| p.ic_a), "vbe_sat", &at)?;
     let icbo = match rec.icbo_max_a {
-        Some(v) => positive("icbo_max_a", v)?,
+        Some(v) => positive("icbo_max_a", v, LEAKAGE_AMPS)?,
         None => DEFAULT_ICBO_A,
     };
     let storage_time = match rec.storage_time_s {
-        Some(v) => Some(seconds(positive("storage_time_s", v)?)),
+        Some(v) => Some(seconds(positive("storage_time_s", v, SECONDS)?)),
         None => None,
     };
     Ok(Part {
@@ -146,7 +147,7 @@ pub fn part_from_record(rec: &PartRecord, file: &str, source: PartSource) -> Res
 fn gain_points(
     points: &[GainRecord],
     name: &str,
-    positive: &dyn Fn(&str, f64) -> Result<f64>,
+    positive: &dyn Fn(&str, f64, Span) -> Result<f64>,
     at: &dyn Fn(&str) -> String,
 ) -> Result<Vec<GainPoint>> {
     if points.is_empty() {
@@ -155,8 +156,8 @@ fn gain_points(
     let mut out = Vec::new();
     for (i, p) in points.iter().enumerate() {
         out.push(GainPoint {
-            ic: amps(positive(&format!("{name}[{i}].ic_a"), p.ic_a)?),
-            hfe: positive(&format!("{name}[{i}].hfe"), p.hfe)?,
+            ic: amps(positive(&format!("{name}[{i}].ic_a"), p.ic_a, AMPS)?),
+            hfe: positive(&format!("{name}[{i}].hfe"), p.hfe, GAIN)?,
         });
     }
     sorted(points.iter().map(|p| p.ic_a), name, at)?;

@@ -182,13 +182,16 @@ pub(crate) fn apply_classes(svg: &str, classes: &[Option<String>]) -> Result<Str
                 classes.len()
             )
         })?;
-        match (class, line.find([' ', '/', '>'])) {
-            (Some(c), Some(at)) => {
-                out.push_str(&line[..at]);
+        let split = line
+            .find([' ', '/', '>'])
+            .and_then(|at| line.split_at_checked(at));
+        match (class, split) {
+            (Some(c), Some((tag, rest))) => {
+                out.push_str(tag);
                 out.push_str(" class=\"");
                 out.push_str(c);
                 out.push('"');
-                out.push_str(&line[at..]);
+                out.push_str(rest);
             }
             _ => out.push_str(line),
         }

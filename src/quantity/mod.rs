@@ -3,6 +3,8 @@
 //! Everything the user types (flags) goes through [`parse_value`]; everything inside the crate is a
 //! `uom` quantity. Renderers turn quantities back into numbers with [`format_engineering`].
 
+pub mod limits;
+
 pub use uom::si::f64::{
     ElectricCurrent as Current, ElectricPotential as Voltage, ElectricalResistance as Resistance,
     Energy, Inductance, Length, Power, TemperatureInterval, ThermalResistance,
@@ -199,9 +201,16 @@ fn rkm_letter(s: &str, kind: ValueKind) -> Option<(usize, i32)> {
         let (p, e) = prefixes(kind).find(|(p, _)| s.starts_with(p))?;
         (p.len(), e)
     };
-    s[len..]
+    split_matched(s, len)
+        .1
         .starts_with(|d: char| d.is_ascii_digit())
         .then_some((len, exp))
+}
+
+/// Split `s` after a prefix of `len` bytes that the caller matched (so `len` is a char boundary).
+/// Never panics: were `len` not a boundary, nothing would be split off.
+fn split_matched(s: &str, len: usize) -> (&str, &str) {
+    s.split_at_checked(len).unwrap_or(("", s))
 }
 
 /// The longest unit (with optional prefix) at the start of `s`: (power of ten, bytes used).
@@ -343,12 +352,14 @@ pub fn parse_value(text: &str, kind: ValueKind) -> Result<f64, ParseValueError> 
     };
     let t = text.trim();
     if t.len() > MAX_INPUT_BYTES {
-        let mut cut = MAX_INPUT_BYTES;
-        while !t.is_char_boundary(cut) {
-            cut -= 1;
-        }
+        // The longest run of whole characters that fits in the limit.
+        let shown: String = t
+            .char_indices()
+            .take_while(|(i, c)| i + c.len_utf8() <= MAX_INPUT_BYTES)
+            .map(|(_, c)| c)
+            .collect();
         return Err(ParseValueError {
-            input: format!("{}…", &t[..cut]),
+            input: format!("{shown}…"),
             kind,
             reason: format!("too long (more than {MAX_INPUT_BYTES} bytes)"),
         });
@@ -370,7 +381,7 @@ pub fn parse_value(text: &str, kind: ValueKind) -> Result<f64, ParseValueError> 
         // Only the resistance form `R47` may start without a digit.
         match rkm_letter(rest, kind) {
             Some((len, 0)) if kind == ValueKind::Resistance && !number.point => {
-                read_rkm("", &rest[len..], 0, kind).map_err(fail)?
+                read_rkm("", split_matched(rest, len).1, 0, kind).map_err(fail)?
             }
             _ if number.point => return Err(fail("no digits around the decimal point".into())),
             _ => return Err(fail("there is no number".to_string())),
@@ -378,24 +389,21 @@ pub fn parse_value(text: &str, kind: ValueKind) -> Result<f64, ParseValueError> 
     } else if rest.starts_with('.') {
         return Err(fail("two decimal points".to_string()));
     } else if let Some((len, exp)) = rkm_letter(rest, kind) {
+        let (letter, after_letter) = split_matched(rest, len);
         if number.point || number.has_exp {
             return Err(fail(format!(
-                "`{}` is an RKM letter standing for the decimal point, so the number cannot also have a decimal point or exponent",
-                &rest[..len]
+                "`{letter}` is an RKM letter standing for the decimal point, so the number cannot also have a decimal point or exponent"
             )));
         }
-        read_rkm(number.int, &rest[len..], exp, kind).map_err(fail)?
+        read_rkm(number.int, after_letter, exp, kind).map_err(fail)?
     } else {
         let suffix = rest.trim_start();
         let exp = if suffix.is_empty() {
             0
         } else if let Some((exp, len)) = match_unit(suffix, kind, true) {
-            let after = &suffix[len..];
+            let (unit, after) = split_matched(suffix, len);
             if !after.is_empty() {
-                return Err(fail(format!(
-                    "unexpected `{after}` after `{}`",
-                    &suffix[..len]
-                )));
+                return Err(fail(format!("unexpected `{after}` after `{unit}`")));
             }
             exp
         } else {
@@ -430,7 +438,10 @@ fn read_rkm(int: &str, after_letter: &str, exp: i32, kind: ValueKind) -> Result<
         match unit_len {
             Some(len) if !unit_letter && len == tail.len() => {}
             Some(len) if !unit_letter => {
-                return Err(format!("unexpected `{}` after the RKM code", &tail[len..]))
+                return Err(format!(
+                    "unexpected `{}` after the RKM code",
+                    split_matched(tail, len).1
+                ))
             }
             _ => return Err(format!("unexpected `{tail}` after the RKM code")),
         }
