@@ -11,6 +11,7 @@ pub mod fixes;
 pub mod resistors;
 pub mod sizing;
 pub mod temperature;
+pub mod yield_mc;
 
 pub use corners::{LedCurrents, LoadCorner, Resistors, WorstCase};
 pub use finding::{CheckId, Finding, Status};

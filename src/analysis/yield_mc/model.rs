@@ -1,0 +1,1041 @@
+//! One build of a stage: the inputs drawn for it and the figures they give.
+//!
+//! The formulas are those of the worst-case engine (stage-model 4), evaluated at drawn values
+//! instead of at the corner. Every input is drawn inside the range the corner takes its end of,
+//! and the overdrive is monotone in every input, so no build can have a lower overdrive than the
+//! corner (up to rounding). Input by input, with the corner's end in brackets:
+//!
+//! - IC = VCC / Rc(Ta) (relay), (VCC - sum Vf) / RL (LED), VCC / Rs (strip), I (current); VCE(sat)
+//!   taken as 0 as in the corner. IC rises with VCC and falls with Rc, RL, sum Vf and Ta (copper
+//!   warms), so IC <= IC,max [VCC,max; Rc-, RL-, n Vf,min, Ta,min].
+//! - IB = (VOH - VBE) / RB - VBE / RBE, with the same drawn VBE in both terms. IB rises with VOH and
+//!   falls with VBE; while VOH - VBE > 0 it falls with RB, and the pull-down term falls with RBE.
+//!   So IB >= IB,min [VOH,min; VBE(sat),max at Ta,min; RB+; RBE-]. A build whose IB <= 0 cannot
+//!   turn on: its overdrive is 0 (never below a corner that is itself <= 0).
+//! - VBE = VBE(sat) between the part's min and max at the build's IC, at 25 C, moved by -2 mV/K to
+//!   the build's Ta. It is <= VBE(sat),max(IC,max) at Ta,min when the part's VBE(sat),max does not
+//!   fall as IC rises (true of every shipped part).
+//! - hFE = gain between the part's min and max at the build's IC (log-uniform), times the
+//!   Gummel-Poon factor at Ta. The factor rises with Ta (XTB >= 0, enforced by the parts
+//!   validator), and hFE,min(IC) / IC falls as IC rises when the minimum-gain curve rises slower
+//!   than IC itself (log-log slope < 1, true of every shipped part; flat below the first point and
+//!   1/IC above the last by stage-model 3). So hFE x IB / IC >= hFE,wc x IB,min / IC,max.
+//!
+//! Where a user's part breaks one of these two conditions on its curves, a build can fall below
+//! the corner: [`super::YieldResult::below_corner_builds`] counts such builds.
+//!
+//! The pin current and the junction temperature are not bounded by the corner in the same way:
+//! the corner reads VBE(sat),min at IC,max, while a build reads VBE(sat) at its own (lower) IC,
+//! where most parts give a lower minimum, so a build can draw slightly more pin current than the
+//! corner says (a few millivolts of VBE: well under 1 % of the pin current).
+//!
+//! Speed: builds go through in blocks of [`BLOCK`], one array a quantity ([`Block`]), step by
+//! step; what depends on IC alone comes from a table sampled from the exact curves, and the
+//! exponential of the gain from [`FastExp`]. [`BuildModel::new`] says how close the tables are;
+//! [`BuildModel::exact`] skips them.
+// Indexing reviewed by hand for the no-panic rule (src/lib.rs): every index here runs over a block's fixed-size arrays ([f64; BLOCK]) inside `0..BLOCK`, or over the two-point spans of tables this module builds from the part and checks for length first; no index comes from a user value.
+#![allow(clippy::indexing_slicing)]
+
+use rand_xoshiro::rand_core::RngCore;
+
+use super::fastexp::FastExp;
+use crate::analysis::corners::Resistors;
+use crate::analysis::temperature::{T_REF_C, VBE_TEMPCO_V_PER_K, ZERO_C_IN_K};
+use crate::load::{Load, COPPER_ALPHA_PER_K, COPPER_REF_C};
+use crate::parts::Part;
+use crate::quantity::Base;
+use crate::stage::Stage;
+
+/// Gain spread assumed when a part gives no maximum gain: the maximum is this many times the
+/// minimum [practice: the rule set for the yield model; a gain group of a general-purpose part
+/// spans about 3:1, from memory].
+pub const GAIN_MAX_OVER_MIN_WHEN_UNKNOWN: f64 = 3.0;
+
+/// The inputs of one build. Resistances in ohms, voltages in volts, temperatures in C.
+#[derive(Clone, Copy, Debug, Default, PartialEq)]
+pub struct Draw {
+    /// Supply VCC.
+    pub supply: f64,
+    /// The pin's high level VOH.
+    pub logic_high: f64,
+    /// Ambient Ta.
+    pub ambient: f64,
+    /// Base resistor RB.
+    pub rb: f64,
+    /// Pull-down RBE; infinite when none is fitted.
+    pub rbe: f64,
+    /// LED series resistor RL (LED loads with a resistor; unused otherwise).
+    pub rl: f64,
+    /// Relay coil resistance at 20 C (relay loads; unused otherwise).
+    pub coil_20c: f64,
+    /// Sum of the LEDs' forward voltages (LED loads; unused otherwise).
+    pub led_drop: f64,
+    /// Where VBE(sat) sits between the part's minimum (0) and maximum (1) at the build's IC.
+    pub vbe_position: f64,
+    /// Where the gain sits between the part's minimum (0) and maximum (1) at the build's IC, on a
+    /// log scale.
+    pub gain_position: f64,
+}
+
+/// What one build gives.
+#[derive(Clone, Copy, Debug, Default, PartialEq)]
+pub struct Outcome {
+    /// Collector current with VCE(sat) taken as 0, A.
+    pub collector_current: f64,
+    /// Base current IB, A (may be <= 0: the build cannot turn on).
+    pub base_current: f64,
+    /// hFE x IB / IC; 0 when IB <= 0; infinite when IC is 0 and IB > 0.
+    pub overdrive: f64,
+    /// Current the pin sources, (VOH - VBE) / RB, never below 0, A.
+    pub pin_current: f64,
+    /// Junction temperature, C.
+    pub junction_c: f64,
+    /// LED current (VCC - sum Vf - VCE(sat),max(IC)) / RL, never below 0, A; LED loads with a
+    /// resistor only.
+    pub led_current: Option<f64>,
+}
+
+/// A range a draw is uniform over, cut in 2^32 steps.
+#[derive(Clone, Copy, Debug)]
+struct Span {
+    lo: f64,
+    /// (hi - lo) / 2^32 (exact: a power of two).
+    step: f64,
+}
+
+impl Span {
+    /// From `lo` to `hi`.
+    fn between(lo: f64, hi: f64) -> Span {
+        Span {
+            lo,
+            step: (hi - lo) * UNIT_STEP,
+        }
+    }
+
+    /// `nominal` +/- `tolerance` (a fraction).
+    fn tolerance(nominal: f64, tolerance: f64) -> Span {
+        Self::between(nominal * (1.0 - tolerance), nominal * (1.0 + tolerance))
+    }
+
+    /// The point `k` steps up (`k` a whole number below 2^32): the same as lo + (hi - lo) x u
+    /// with u = k / 2^32, to the last bit.
+    #[inline(always)]
+    fn at(&self, k: f64) -> f64 {
+        self.lo + self.step * k
+    }
+}
+
+/// The ranges of a stage's toleranced inputs.
+#[derive(Clone, Copy, Debug)]
+struct Ranges {
+    supply: Span,
+    logic_high: Span,
+    ambient: Span,
+    rb: Span,
+    /// Infinite (no pull-down) or RBE +/- tol.
+    rbe: Span,
+    /// The relay coil at 20 C or the LED resistor, +/- their tolerances.
+    load: Span,
+}
+
+impl Ranges {
+    fn new(stage: &Stage, resistors: Resistors) -> Ranges {
+        let tol = stage.resistor_tolerance;
+        let load = match (&stage.load, resistors.rl) {
+            (Load::Relay(r), _) => Span::tolerance(r.coil_20c.base(), r.tolerance),
+            (Load::Led(_), Some(rl)) => Span::tolerance(rl.base(), tol),
+            _ => Span::between(0.0, 0.0),
+        };
+        Ranges {
+            supply: Span::tolerance(stage.supply.base(), stage.supply_tolerance),
+            logic_high: Span::between(stage.logic_high_min.base(), stage.logic_high.base()),
+            ambient: Span::between(stage.ambient_min.base(), stage.ambient_max.base()),
+            rb: Span::tolerance(resistors.rb.base(), tol),
+            rbe: match resistors.rbe {
+                Some(r) => Span::tolerance(r.base(), tol),
+                None => Span {
+                    lo: f64::INFINITY,
+                    step: 0.0,
+                },
+            },
+            load,
+        }
+    }
+}
+
+/// The load as the model sees it.
+#[derive(Clone, Copy, Debug)]
+enum LoadModel {
+    /// A fixed current, A.
+    Current(f64),
+    /// A relay coil: resistance at 20 C and its tolerance.
+    Relay { coil_20c: f64, tolerance: f64 },
+    /// LEDs with a series resistor.
+    Led {
+        count: u32,
+        forward_min: f64,
+        forward_span: f64,
+        rl: f64,
+    },
+    /// LEDs without a resistor (no headroom to size one): the target current stands in for IC,
+    /// as in the corner.
+    LedTarget(f64),
+    /// A strip modelled as a fixed resistor, ohms.
+    Strip(f64),
+}
+
+/// A piecewise-linear curve through sorted points, `K` values a point (sharing the x), with
+/// its slopes precomputed.
+#[derive(Clone, Debug)]
+struct Curve<const K: usize> {
+    x: Vec<f64>,
+    y: Vec<[f64; K]>,
+    dydx: Vec<[f64; K]>,
+}
+
+impl<const K: usize> Curve<K> {
+    fn new(x: Vec<f64>, y: Vec<[f64; K]>) -> Curve<K> {
+        // Slopes between consecutive points; 0 where two points share an x (the later value is
+        // taken from there on, as `Part`'s interpolation does).
+        let dydx = x
+            .windows(2)
+            .zip(y.windows(2))
+            .map(|(x, y)| {
+                let mut d = [0.0; K];
+                if x[1] > x[0] {
+                    for k in 0..K {
+                        d[k] = (y[1][k] - y[0][k]) / (x[1] - x[0]);
+                    }
+                }
+                d
+            })
+            .collect();
+        Curve { x, y, dydx }
+    }
+
+    /// The values at `x`: held at the first point's below it, `above(last x, last values, x)`
+    /// above the last point, linear between.
+    #[inline(always)]
+    fn at(&self, x: f64, above: impl Fn(f64, [f64; K], f64) -> [f64; K]) -> [f64; K] {
+        let xs = &self.x;
+        let n = xs.len();
+        if n == 0 || self.y.len() != n {
+            return [f64::NAN; K];
+        }
+        if x <= xs[0] {
+            return self.y[0];
+        }
+        if x >= xs[n - 1] {
+            return above(xs[n - 1], self.y[n - 1], x);
+        }
+        let mut i = 1;
+        while i < n - 1 && x > xs[i] {
+            i += 1;
+        }
+        if xs[i] == xs[i - 1] {
+            return self.y[i];
+        }
+        let (y0, d) = (self.y[i - 1], self.dydx[i - 1]);
+        let mut out = [0.0; K];
+        for k in 0..K {
+            out[k] = y0[k] + d[k] * (x - xs[i - 1]);
+        }
+        out
+    }
+}
+
+/// ln hFE against ln IC: log-log between points, flat below the first, 1/IC above the last
+/// (the curve of `Part::gain_min_at`, stage-model 3, kept in logs).
+#[derive(Clone, Debug)]
+struct GainCurve(Curve<1>);
+
+impl GainCurve {
+    fn new(points: &[crate::parts::GainPoint]) -> GainCurve {
+        GainCurve(Curve::new(
+            points.iter().map(|p| p.ic.base().ln()).collect(),
+            points.iter().map(|p| [p.hfe.ln()]).collect(),
+        ))
+    }
+
+    fn at(&self, ln_ic: f64) -> f64 {
+        // hFE x IC constant above the last point.
+        self.0.at(ln_ic, |xn, [yn], x| [yn + xn - x])[0]
+    }
+}
+
+/// Builds evaluated together by [`BuildModel::evaluate_block`].
+pub const BLOCK: usize = 64;
+
+/// A block of builds, one array a quantity: the draws, then the figures.
+#[derive(Clone, Debug)]
+pub struct Block {
+    /// Builds in the block.
+    pub len: usize,
+    supply: [f64; BLOCK],
+    logic_high: [f64; BLOCK],
+    ambient: [f64; BLOCK],
+    rb: [f64; BLOCK],
+    rbe: [f64; BLOCK],
+    rl: [f64; BLOCK],
+    coil_20c: [f64; BLOCK],
+    led_drop: [f64; BLOCK],
+    vbe_position: [f64; BLOCK],
+    gain_position: [f64; BLOCK],
+    ic: [f64; BLOCK],
+    vbe: [f64; BLOCK],
+    vce: [f64; BLOCK],
+    base_current: [f64; BLOCK],
+    /// (VOH - VBE) / RB until the end, then never below 0.
+    pin_current: [f64; BLOCK],
+    /// ln(hFE / IC) until the exponential, then the overdrive.
+    overdrive: [f64; BLOCK],
+    junction_c: [f64; BLOCK],
+    /// NaN for loads without an LED current.
+    led_current: [f64; BLOCK],
+}
+
+impl Default for Block {
+    fn default() -> Self {
+        let z = [0.0; BLOCK];
+        Block {
+            len: 0,
+            supply: z,
+            logic_high: z,
+            ambient: z,
+            rb: z,
+            rbe: z,
+            rl: z,
+            coil_20c: z,
+            led_drop: z,
+            vbe_position: z,
+            gain_position: z,
+            ic: z,
+            vbe: z,
+            vce: z,
+            base_current: z,
+            pin_current: z,
+            overdrive: z,
+            junction_c: z,
+            led_current: z,
+        }
+    }
+}
+
+impl Block {
+    /// Put build `j`'s draw in.
+    #[inline(always)]
+    fn set(&mut self, j: usize, d: &Draw) {
+        self.supply[j] = d.supply;
+        self.logic_high[j] = d.logic_high;
+        self.ambient[j] = d.ambient;
+        self.rb[j] = d.rb;
+        self.rbe[j] = d.rbe;
+        self.rl[j] = d.rl;
+        self.coil_20c[j] = d.coil_20c;
+        self.led_drop[j] = d.led_drop;
+        self.vbe_position[j] = d.vbe_position;
+        self.gain_position[j] = d.gain_position;
+    }
+
+    /// The draw of build `j`.
+    pub fn draw(&self, j: usize) -> Draw {
+        Draw {
+            supply: self.supply[j],
+            logic_high: self.logic_high[j],
+            ambient: self.ambient[j],
+            rb: self.rb[j],
+            rbe: self.rbe[j],
+            rl: self.rl[j],
+            coil_20c: self.coil_20c[j],
+            led_drop: self.led_drop[j],
+            vbe_position: self.vbe_position[j],
+            gain_position: self.gain_position[j],
+        }
+    }
+
+    /// The figures of build `j` (after [`BuildModel::evaluate_block`]).
+    #[inline(always)]
+    pub fn outcome(&self, j: usize) -> Outcome {
+        let led = self.led_current[j];
+        Outcome {
+            collector_current: self.ic[j],
+            base_current: self.base_current[j],
+            overdrive: self.overdrive[j],
+            pin_current: self.pin_current[j],
+            junction_c: self.junction_c[j],
+            led_current: (!led.is_nan()).then_some(led),
+        }
+    }
+
+    /// The overdrive of each build (after [`BuildModel::evaluate_block`]).
+    pub fn overdrive(&self) -> &[f64] {
+        &self.overdrive[..self.len.min(BLOCK)]
+    }
+
+    /// The pin current of each build, A.
+    pub fn pin_current(&self) -> &[f64] {
+        &self.pin_current[..self.len.min(BLOCK)]
+    }
+
+    /// The junction temperature of each build, C.
+    pub fn junction_c(&self) -> &[f64] {
+        &self.junction_c[..self.len.min(BLOCK)]
+    }
+
+    /// The LED current of each build, A (NaN for loads without one).
+    pub fn led_current(&self) -> &[f64] {
+        &self.led_current[..self.len.min(BLOCK)]
+    }
+}
+
+/// Cells of the table of IC-dependent terms over the builds' collector-current range.
+const IC_TABLE_CELLS: usize = 1024;
+/// Cells of the temperature table over the ambient range.
+const TEMPERATURE_TABLE_CELLS: usize = 256;
+/// The IC table covers at most IC,max / this .. IC,max; builds below use the exact path.
+const IC_TABLE_SPAN: f64 = 4.0;
+
+/// A function of one variable sampled at evenly spaced nodes over [lo, hi] and interpolated
+/// linearly between them. Exact at the nodes (up to one rounding at the right end of a cell);
+/// between them it stays between its two node values, so it keeps the direction (rising or
+/// falling) of the function it samples. The last node sits exactly at `hi`.
+#[derive(Clone, Debug)]
+struct Table<const K: usize> {
+    lo: f64,
+    hi: f64,
+    /// Cells per unit of x (0 for a single point).
+    scale: f64,
+    /// Index of the last cell.
+    last: i64,
+    /// Per cell: the values at its left node and the rise to its right node.
+    cells: Vec<([f64; K], [f64; K])>,
+}
+
+impl<const K: usize> Table<K> {
+    fn new(lo: f64, hi: f64, cells: usize, f: impl Fn(f64) -> [f64; K]) -> Table<K> {
+        let n = if hi > lo { cells.max(1) } else { 1 };
+        let step = (hi - lo) / n as f64;
+        let nodes: Vec<[f64; K]> = (0..=n)
+            .map(|i| f(if i == n { hi } else { lo + step * i as f64 }))
+            .collect();
+        let cells = nodes
+            .windows(2)
+            .map(|w| {
+                let mut rise = [0.0; K];
+                for k in 0..K {
+                    rise[k] = w[1][k] - w[0][k];
+                }
+                (w[0], rise)
+            })
+            .collect();
+        Table {
+            lo,
+            hi,
+            scale: if hi > lo { n as f64 / (hi - lo) } else { 0.0 },
+            last: i64::try_from(n).unwrap_or(1) - 1,
+            cells,
+        }
+    }
+
+    /// The interpolated values at `x`; `None` outside [lo, hi].
+    #[inline(always)]
+    fn at(&self, x: f64) -> Option<[f64; K]> {
+        if !(x >= self.lo && x <= self.hi) {
+            return None;
+        }
+        let t = (x - self.lo) * self.scale;
+        // t >= 0 here; i64 keeps both conversions single instructions.
+        let i = (t as i64).min(self.last);
+        let frac = (t - i as f64).min(1.0);
+        let (left, rise) = self.cells.get(i as usize)?;
+        let mut out = [0.0; K];
+        for k in 0..K {
+            out[k] = left[k] + rise[k] * frac;
+        }
+        Some(out)
+    }
+}
+
+/// The gain's temperature factor ((Ta + 273.15) / 298.15)^XTB [text: Gummel-Poon], as
+/// `temperature::gain_factor`.
+#[derive(Clone, Debug)]
+enum TemperatureGain {
+    /// XTB a multiple of 1/2 (1.5, the usual value, among them): sqrt(ratio) to that many
+    /// halves, by multiplication; no logarithm.
+    Halves(u32),
+    /// Any other XTB: sampled over the ambient range.
+    Table(Table<1>),
+    /// Any other XTB, by `powf` every build.
+    Power,
+}
+
+impl TemperatureGain {
+    /// Halves when XTB is a multiple of 1/2, else `powf` (no table).
+    fn exact(xtb: f64) -> TemperatureGain {
+        let halves = 2.0 * xtb;
+        if halves.fract() == 0.0 && (0.0..=16.0).contains(&halves) {
+            // Exact: a whole number from 0 to 16.
+            TemperatureGain::Halves(halves as u32)
+        } else {
+            TemperatureGain::Power
+        }
+    }
+
+    /// Halves when XTB is a multiple of 1/2, else a table over the ambient range.
+    fn fast(xtb: f64, ambient_min: f64, ambient_max: f64) -> TemperatureGain {
+        match Self::exact(xtb) {
+            TemperatureGain::Power => TemperatureGain::Table(Table::new(
+                ambient_min,
+                ambient_max,
+                TEMPERATURE_TABLE_CELLS,
+                |t| [temperature_factor(xtb, t)],
+            )),
+            other => other,
+        }
+    }
+
+    #[inline(always)]
+    fn at(&self, xtb: f64, ambient_c: f64) -> f64 {
+        match self {
+            TemperatureGain::Halves(k) => {
+                let ratio = temperature_ratio(ambient_c);
+                let mut f = if k % 2 == 1 { ratio.sqrt() } else { 1.0 };
+                for _ in 0..k / 2 {
+                    f *= ratio;
+                }
+                f
+            }
+            TemperatureGain::Table(t) => match t.at(ambient_c) {
+                Some([v]) => v,
+                None => temperature_factor(xtb, ambient_c),
+            },
+            TemperatureGain::Power => temperature_factor(xtb, ambient_c),
+        }
+    }
+}
+
+/// Everything about a stage that does not change from build to build, in plain SI numbers.
+#[derive(Clone, Debug)]
+pub struct BuildModel {
+    supply: f64,
+    supply_tolerance: f64,
+    logic_high: f64,
+    logic_high_min: f64,
+    ambient_min: f64,
+    ambient_max: f64,
+    rb: f64,
+    rbe: Option<f64>,
+    resistor_tolerance: f64,
+    load: LoadModel,
+    gain_min: GainCurve,
+    gain_max: Option<GainCurve>,
+    xtb: f64,
+    /// VBE(sat) [min, max] against IC: linear between points, held at the end values outside
+    /// (stage-model 5).
+    vbe: Curve<2>,
+    /// VCE(sat),max against IC: the first value below the first point, linear between points,
+    /// through the origin above the last (stage-model 3).
+    vce: Curve<1>,
+    r_th_ja: f64,
+    /// [ln hFE,min - ln IC, ln(hFE,max / hFE,min), VBE(sat),min, VBE(sat),max, VCE(sat),max]
+    /// over the builds' IC range (see [`Self::new`]).
+    ic_table: Option<Table<5>>,
+    /// The gain's temperature factor.
+    temperature_gain: TemperatureGain,
+    /// The ranges the draws are uniform over.
+    ranges: Ranges,
+    /// The exponential of the inner loop.
+    exp: FastExp,
+}
+
+impl BuildModel {
+    /// The model of a stage with its final resistors.
+    ///
+    /// What depends on IC alone (the gain limits over IC in logs, VBE(sat) limits, VCE(sat),max)
+    /// is read from a table sampled from the exact curves: 1024 cells over the builds'
+    /// collector-current range, at most IC,max / 4 .. IC,max. So is the gain's temperature factor
+    /// when XTB is not a multiple of 1/2 (256 cells over the ambient range). This saves two
+    /// logarithms, a division and three curve searches a build. The tables are exact at their
+    /// nodes and keep the direction of the curves they sample, so the corner stays the lowest
+    /// overdrive; between nodes the figures differ from the exact curves by less than 1e-5
+    /// relative (tested against [`Self::exact`]), far inside the spread of any part's data.
+    /// Builds outside a table's range take the exact path.
+    pub fn new(stage: &Stage, resistors: Resistors) -> BuildModel {
+        let mut model = Self::exact(stage, resistors);
+        let ic_max = stage
+            .load
+            .collector_current_max(
+                stage.supply_max(),
+                stage.ambient_min,
+                stage.resistor_tolerance,
+                resistors.rl,
+            )
+            .base();
+        let ic_min = model.collector_current_min();
+        if ic_max > 0.0 && ic_max.is_finite() {
+            let lo = ic_min.clamp(ic_max / IC_TABLE_SPAN, ic_max);
+            let table = Table::new(lo, ic_max, IC_TABLE_CELLS, |ic| model.ic_terms_exact(ic));
+            model.ic_table = Some(table);
+        }
+        model.temperature_gain =
+            TemperatureGain::fast(model.xtb, model.ambient_min, model.ambient_max);
+        model
+    }
+
+    /// The model without tables: every build through the exact curves (the gain's temperature
+    /// factor by `powf` unless XTB is a multiple of 1/2).
+    pub fn exact(stage: &Stage, resistors: Resistors) -> BuildModel {
+        let part: &Part = &stage.part;
+        let load = match (&stage.load, resistors.rl) {
+            (Load::Current { current }, _) => LoadModel::Current(current.base()),
+            (Load::Relay(r), _) => LoadModel::Relay {
+                coil_20c: r.coil_20c.base(),
+                tolerance: r.tolerance,
+            },
+            (Load::Led(l), Some(rl)) => LoadModel::Led {
+                count: l.count,
+                forward_min: l.forward_min.base(),
+                forward_span: l.forward_max.base() - l.forward_min.base(),
+                rl: rl.base(),
+            },
+            (Load::Led(l), None) => LoadModel::LedTarget(l.current.base()),
+            (Load::Strip(s), _) => LoadModel::Strip(s.resistance().base()),
+        };
+        BuildModel {
+            supply: stage.supply.base(),
+            supply_tolerance: stage.supply_tolerance,
+            logic_high: stage.logic_high.base(),
+            logic_high_min: stage.logic_high_min.base(),
+            ambient_min: stage.ambient_min.base(),
+            ambient_max: stage.ambient_max.base(),
+            rb: resistors.rb.base(),
+            rbe: resistors.rbe.map(|r| r.base()),
+            resistor_tolerance: stage.resistor_tolerance,
+            load,
+            gain_min: GainCurve::new(&part.gain_min),
+            gain_max: part.gain_max.as_deref().map(GainCurve::new),
+            xtb: part.gain_temp_exponent,
+            vbe: Curve::new(
+                part.vbe_sat.iter().map(|p| p.ic.base()).collect(),
+                part.vbe_sat
+                    .iter()
+                    .map(|p| [p.min.base(), p.max.base()])
+                    .collect(),
+            ),
+            vce: Curve::new(
+                part.vce_sat_max.iter().map(|p| p.ic.base()).collect(),
+                part.vce_sat_max.iter().map(|p| [p.v.base()]).collect(),
+            ),
+            r_th_ja: part.r_th_ja.base(),
+            ic_table: None,
+            temperature_gain: TemperatureGain::exact(part.gain_temp_exponent),
+            ranges: Ranges::new(stage, resistors),
+            exp: FastExp::new(),
+        }
+    }
+
+    /// True for an LED load with a series resistor (the builds then have an LED current).
+    pub fn has_led_current(&self) -> bool {
+        matches!(self.load, LoadModel::Led { .. })
+    }
+
+    /// The lowest collector current any build can have (the opposite corner of IC,max).
+    fn collector_current_min(&self) -> f64 {
+        let tol = self.resistor_tolerance;
+        let vcc_min = self.supply * (1.0 - self.supply_tolerance);
+        let ic = match self.load {
+            LoadModel::Current(i) | LoadModel::LedTarget(i) => i,
+            LoadModel::Relay {
+                coil_20c,
+                tolerance,
+            } => vcc_min / (copper(coil_20c, self.ambient_max) * (1.0 + tolerance)),
+            LoadModel::Led {
+                count,
+                forward_min,
+                forward_span,
+                rl,
+            } => (vcc_min - (forward_min + forward_span) * f64::from(count)) / (rl * (1.0 + tol)),
+            LoadModel::Strip(rs) => vcc_min / rs,
+        };
+        ic.max(0.0)
+    }
+
+    /// Draw one build: every toleranced input independently, uniform over its range (the gain
+    /// log-uniform). LED forward voltages are drawn one per LED. A block of one, so that a build
+    /// draws the same alone as in a block.
+    pub fn draw<R: RngCore>(&self, rng: &mut R) -> Draw {
+        let mut block = Block::default();
+        self.draw_block(rng, &mut block, 1);
+        block.draw(0)
+    }
+
+    /// Draw `n` (at most [`BLOCK`]) builds into a block: every toleranced input independently,
+    /// uniform over its range (the gain log-uniform between its limits), LED forward voltages
+    /// one per LED. Each 64-bit output gives two uniforms of 32 bits (steps of 2^-32 of a
+    /// range, far finer than any tolerance matters). Inputs a load does not have are 0.
+    #[inline]
+    pub fn draw_block<R: RngCore>(&self, rng: &mut R, b: &mut Block, n: usize) {
+        let n = n.min(BLOCK);
+        b.len = n;
+        let r = &self.ranges;
+        match self.load {
+            LoadModel::Relay { .. } => {
+                for j in 0..n {
+                    let k_load = self.draw_common(rng, b, j);
+                    b.coil_20c[j] = r.load.at(k_load);
+                }
+                b.rl[..n].fill(0.0);
+                b.led_drop[..n].fill(0.0);
+            }
+            LoadModel::Led {
+                count,
+                forward_min,
+                forward_span,
+                ..
+            } => {
+                let forward_step = forward_span * UNIT_STEP;
+                for j in 0..n {
+                    let k_load = self.draw_common(rng, b, j);
+                    b.rl[j] = r.load.at(k_load);
+                    let mut drop = 0.0;
+                    let mut left = count;
+                    while left >= 2 {
+                        let (k1, k2) = step_pair(rng);
+                        drop += 2.0 * forward_min + forward_step * (k1 + k2);
+                        left -= 2;
+                    }
+                    if left == 1 {
+                        drop += forward_min + forward_step * step_pair(rng).0;
+                    }
+                    b.led_drop[j] = drop;
+                }
+                b.coil_20c[..n].fill(0.0);
+            }
+            LoadModel::Current(_) | LoadModel::LedTarget(_) | LoadModel::Strip(_) => {
+                for j in 0..n {
+                    self.draw_common(rng, b, j);
+                }
+                b.rl[..n].fill(0.0);
+                b.coil_20c[..n].fill(0.0);
+                b.led_drop[..n].fill(0.0);
+            }
+        }
+    }
+
+    /// The draws every load has, into build `j` of the block; returns the step count for the
+    /// load's own input (drawn whether the load uses it or not, so the stream's layout is the
+    /// same for every load: four 64-bit outputs a build, then one per two LEDs).
+    #[inline(always)]
+    fn draw_common<R: RngCore>(&self, rng: &mut R, b: &mut Block, j: usize) -> f64 {
+        let r = &self.ranges;
+        let (k_supply, k_high) = step_pair(rng);
+        let (k_ambient, k_rb) = step_pair(rng);
+        let (k_rbe, k_vbe) = step_pair(rng);
+        let (k_gain, k_load) = step_pair(rng);
+        b.supply[j] = r.supply.at(k_supply);
+        b.logic_high[j] = r.logic_high.at(k_high);
+        b.ambient[j] = r.ambient.at(k_ambient);
+        b.rb[j] = r.rb.at(k_rb);
+        b.rbe[j] = r.rbe.at(k_rbe);
+        b.vbe_position[j] = k_vbe * UNIT_STEP;
+        b.gain_position[j] = k_gain * UNIT_STEP;
+        k_load
+    }
+
+    /// The build with every input at the end the worst-case corner takes for the overdrive
+    /// (stage-model 4): VCC,max, VOH,min, Ta,min, RB+, RBE-, RL-, coil -tol, every LED at Vf,min,
+    /// VBE(sat) at its maximum, gain at its minimum.
+    pub fn worst_end_draw(&self) -> Draw {
+        let tol = self.resistor_tolerance;
+        let (rl, coil_20c, led_drop) = match self.load {
+            LoadModel::Relay {
+                coil_20c,
+                tolerance,
+            } => (0.0, coil_20c * (1.0 - tolerance), 0.0),
+            LoadModel::Led {
+                count,
+                forward_min,
+                rl,
+                ..
+            } => (rl * (1.0 - tol), 0.0, forward_min * f64::from(count)),
+            _ => (0.0, 0.0, 0.0),
+        };
+        Draw {
+            supply: self.supply * (1.0 + self.supply_tolerance),
+            logic_high: self.logic_high_min,
+            ambient: self.ambient_min,
+            rb: self.rb * (1.0 + tol),
+            rbe: self.rbe.map_or(f64::INFINITY, |r| r * (1.0 - tol)),
+            rl,
+            coil_20c,
+            led_drop,
+            vbe_position: 1.0,
+            gain_position: 0.0,
+        }
+    }
+
+    /// The build with every input at its nominal value (the middle of each range; the gain at
+    /// the geometric middle of min and max).
+    pub fn nominal_draw(&self) -> Draw {
+        let (rl, coil_20c, led_drop) = match self.load {
+            LoadModel::Relay { coil_20c, .. } => (0.0, coil_20c, 0.0),
+            LoadModel::Led {
+                count,
+                forward_min,
+                forward_span,
+                rl,
+            } => (
+                rl,
+                0.0,
+                (forward_min + 0.5 * forward_span) * f64::from(count),
+            ),
+            _ => (0.0, 0.0, 0.0),
+        };
+        Draw {
+            supply: self.supply,
+            logic_high: 0.5 * (self.logic_high_min + self.logic_high),
+            ambient: 0.5 * (self.ambient_min + self.ambient_max),
+            rb: self.rb,
+            rbe: self.rbe.unwrap_or(f64::INFINITY),
+            rl,
+            coil_20c,
+            led_drop,
+            vbe_position: 0.5,
+            gain_position: 0.5,
+        }
+    }
+
+    /// The figures of one build (stage-model 4 formulas at the drawn values): a block of one,
+    /// so that a build gives the same figures alone as in any block.
+    pub fn evaluate(&self, d: &Draw) -> Outcome {
+        let mut block = Block::default();
+        block.set(0, d);
+        block.len = 1;
+        self.evaluate_block(&mut block);
+        block.outcome(0)
+    }
+
+    /// The figures of the builds of a block. The work goes step by step over the whole block,
+    /// column by column, so that the processor overlaps (and the compiler pairs) the divisions,
+    /// look-ups and exponentials of different builds instead of waiting on one build's chain of
+    /// them; each build's arithmetic is the same as alone.
+    #[inline]
+    pub fn evaluate_block(&self, b: &mut Block) {
+        let n = b.len.min(BLOCK);
+        // Collector current, VCE(sat) taken as 0 (stage-model 4). `max` also turns NaN into 0.
+        match self.load {
+            LoadModel::Current(i) | LoadModel::LedTarget(i) => b.ic[..n].fill(i.max(0.0)),
+            LoadModel::Relay { .. } => {
+                for j in 0..n {
+                    b.ic[j] = (b.supply[j] / copper(b.coil_20c[j], b.ambient[j])).max(0.0);
+                }
+            }
+            LoadModel::Led { .. } => {
+                for j in 0..n {
+                    b.ic[j] = ((b.supply[j] - b.led_drop[j]) / b.rl[j]).max(0.0);
+                }
+            }
+            LoadModel::Strip(rs) => {
+                for j in 0..n {
+                    b.ic[j] = (b.supply[j] / rs).max(0.0);
+                }
+            }
+        }
+        for j in 0..n {
+            let [per_ic, spread, vbe_lo, vbe_hi, vce_max] = self.ic_terms(b.ic[j]);
+            // VBE(sat) between the part's limits at the build's IC, at 25 C (moved to the
+            // build's ambient below).
+            b.vbe[j] = vbe_lo + (vbe_hi - vbe_lo) * b.vbe_position[j];
+            b.vce[j] = vce_max;
+            // ln(hFE,25C / IC): log-uniform between the limits.
+            b.overdrive[j] = per_ic + spread * b.gain_position[j];
+        }
+        for j in 0..n {
+            // -2 mV/K from the 25 C figures [text], as `temperature::vbe_at`.
+            b.vbe[j] += VBE_TEMPCO_V_PER_K * (b.ambient[j] - T_REF_C);
+            // IB = (VOH - VBE) / RB - VBE / RBE, one VBE in both terms.
+            b.pin_current[j] = (b.logic_high[j] - b.vbe[j]) / b.rb[j];
+            b.base_current[j] = b.pin_current[j] - b.vbe[j] / b.rbe[j];
+        }
+        // hFE x IB / IC = IB x exp(ln(hFE,25C / IC)) x (T/Tref)^XTB; 0 when the build cannot
+        // turn on; infinite when the load draws nothing.
+        for j in 0..n {
+            let (c, ib) = (b.ic[j], b.base_current[j]);
+            b.overdrive[j] = if ib > 0.0 {
+                if c > 0.0 {
+                    ib * self.exp.exp(b.overdrive[j])
+                } else {
+                    f64::INFINITY
+                }
+            } else {
+                0.0
+            };
+        }
+        // The gain's temperature factor; for the usual XTB = 1.5, ratio x sqrt(ratio).
+        match self.temperature_gain {
+            TemperatureGain::Halves(3) => {
+                for j in 0..n {
+                    let ratio = temperature_ratio(b.ambient[j]);
+                    b.overdrive[j] *= ratio * ratio.sqrt();
+                }
+            }
+            _ => {
+                for j in 0..n {
+                    b.overdrive[j] *= self.temperature_gain.at(self.xtb, b.ambient[j]);
+                }
+            }
+        }
+        for j in 0..n {
+            let pin = b.pin_current[j].max(0.0);
+            b.pin_current[j] = pin;
+            b.junction_c[j] = b.ambient[j] + (b.vce[j] * b.ic[j] + b.vbe[j] * pin) * self.r_th_ja;
+        }
+        if matches!(self.load, LoadModel::Led { .. }) {
+            for j in 0..n {
+                b.led_current[j] = ((b.supply[j] - b.led_drop[j] - b.vce[j]) / b.rl[j]).max(0.0);
+            }
+        } else {
+            b.led_current[..n].fill(f64::NAN);
+        }
+    }
+
+    /// The IC-dependent terms from the table when IC is inside it, else exactly.
+    #[inline(always)]
+    fn ic_terms(&self, ic: f64) -> [f64; 5] {
+        match self.ic_table.as_ref().and_then(|t| t.at(ic)) {
+            Some(v) => v,
+            None => self.ic_terms_exact(ic),
+        }
+    }
+
+    /// At IC: [ln hFE,min - ln IC, ln hFE,max - ln hFE,min, VBE(sat),min, VBE(sat),max (25 C),
+    /// VCE(sat),max] from the part's curves. Kept out of line: the inner loop takes it only for
+    /// builds outside the table.
+    #[inline(never)]
+    fn ic_terms_exact(&self, ic: f64) -> [f64; 5] {
+        let (per_ic, spread) = self.gain_terms(ic);
+        let [vbe_lo, vbe_hi] = self.vbe.at(ic, |_, held, _| held);
+        let [vce] = self.vce.at(ic, |xn, [yn], x| [yn * x / xn]);
+        [per_ic, spread, vbe_lo, vbe_hi, vce]
+    }
+
+    /// At IC > 0: (ln hFE,min(IC) - ln IC, ln hFE,max(IC) - ln hFE,min(IC)), the gain curves of
+    /// stage-model 3 at 25 C. The maximum is the part's maximum curve when it gives one, else 3 x
+    /// the minimum; a maximum curve that dips under the minimum one (they interpolate separately)
+    /// is held at the minimum.
+    fn gain_terms(&self, ic: f64) -> (f64, f64) {
+        let ln_ic = ic.ln();
+        let lo = self.gain_min.at(ln_ic);
+        let hi = match &self.gain_max {
+            Some(c) => c.at(ln_ic),
+            None => lo + GAIN_MAX_OVER_MIN_WHEN_UNKNOWN.ln(),
+        };
+        (lo - ln_ic, (hi - lo).max(0.0))
+    }
+}
+
+/// (Ta + 273.15) / 298.15 (times the reciprocal: one rounding more than a division, no
+/// divider).
+#[inline(always)]
+fn temperature_ratio(ambient_c: f64) -> f64 {
+    (ambient_c + ZERO_C_IN_K) * (1.0 / (T_REF_C + ZERO_C_IN_K))
+}
+
+/// ((Ta + 273.15) / 298.15)^XTB: the gain's temperature factor [text: Gummel-Poon], as
+/// `temperature::gain_factor`.
+fn temperature_factor(xtb: f64, ambient_c: f64) -> f64 {
+    ((ambient_c + ZERO_C_IN_K) / (T_REF_C + ZERO_C_IN_K)).powf(xtb)
+}
+
+/// Copper resistance at `t` C from its 20 C value [std IEC 60028], as `load::copper_at`.
+#[inline]
+fn copper(r20: f64, t: f64) -> f64 {
+    r20 * (1.0 + COPPER_ALPHA_PER_K * (t - COPPER_REF_C))
+}
+
+/// 2^-32: one step of a uniform draw.
+const UNIT_STEP: f64 = 1.0 / 4_294_967_296.0;
+
+/// Two uniform whole numbers in 0 .. 2^32 (as doubles) from one 64-bit output: its high and
+/// low halves (xoshiro256++ has no weak low bits, per its authors, from memory). Times
+/// [`UNIT_STEP`] they are uniform in [0, 1).
+#[inline(always)]
+fn step_pair<R: RngCore>(rng: &mut R) -> (f64, f64) {
+    let x = rng.next_u64();
+    // Through u32: a single conversion instruction each.
+    (f64::from((x >> 32) as u32), f64::from(x as u32))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::analysis::analyse;
+    use crate::analysis::temperature::gain_factor;
+    use crate::analysis::yield_mc::tests::relay_stage;
+    use crate::load::copper_at;
+    use crate::parts::Library;
+    use crate::quantity::{amps, celsius, ohms};
+    use crate::stage::PullDown;
+
+    fn close(a: f64, b: f64) -> bool {
+        (a - b).abs() <= 1e-12 * b.abs().max(1e-300)
+    }
+
+    /// The curves are kept here in their own form for speed; they must read the same as the
+    /// part look-ups the worst-case engine uses.
+    #[test]
+    fn curves_read_the_same_as_the_part_lookups() {
+        let lib = Library::builtin().expect("shipped parts load");
+        for part in lib.iter() {
+            let stage = Stage {
+                part: std::sync::Arc::new(part.clone()),
+                ..relay_stage(Some(1000.0), PullDown::None)
+            };
+            let model = BuildModel::exact(&stage, analyse(&stage).worst.resistors);
+            for i in 0..=300 {
+                let ic = 1e-5 * 10f64.powf(f64::from(i) / 60.0); // 10 uA .. 1 A
+                let [per_ic, spread, vbe_lo, vbe_hi, vce] = model.ic_terms_exact(ic);
+                let g_min = part.gain_min_at(amps(ic));
+                let g_max = part
+                    .gain_max_at(amps(ic))
+                    .unwrap_or(GAIN_MAX_OVER_MIN_WHEN_UNKNOWN * g_min)
+                    .max(g_min);
+                let (lo, hi) = part.vbe_sat_at(amps(ic));
+                assert!(close(per_ic.exp(), g_min / ic), "{} at {ic}", part.id);
+                assert!(close(spread.exp(), g_max / g_min), "{} at {ic}", part.id);
+                assert!(
+                    close(vbe_lo, lo.base()) && close(vbe_hi, hi.base()),
+                    "{}",
+                    part.id
+                );
+                assert!(
+                    close(vce, part.vce_sat_max_at(amps(ic)).base()),
+                    "{}",
+                    part.id
+                );
+            }
+        }
+    }
+
+    #[test]
+    fn temperature_and_copper_read_the_same_as_the_engine() {
+        for xtb in [0.0, 1.0, 1.3, 1.5, 2.0, 2.5, 5.0] {
+            let exact = TemperatureGain::exact(xtb);
+            for t in [-55.0, -40.0, 0.0, 25.0, 85.0, 125.0] {
+                let want = gain_factor(celsius(t), xtb);
+                assert!(close(exact.at(xtb, t), want), "XTB {xtb} at {t} C");
+                let table = TemperatureGain::fast(xtb, -55.0, 125.0);
+                assert!(
+                    (table.at(xtb, t) - want).abs() <= 1e-6 * want,
+                    "XTB {xtb} at {t} C"
+                );
+            }
+        }
+        for t in [-40.0, 20.0, 125.0] {
+            assert!(close(
+                copper(400.0, t),
+                copper_at(ohms(400.0), celsius(t)).base()
+            ));
+        }
+    }
+}
