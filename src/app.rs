@@ -4,9 +4,10 @@
 use std::io::{IsTerminal, Write};
 use std::path::{Path, PathBuf};
 
-use crate::analysis::{analyse, stage_report, Status};
+use crate::analysis::yield_mc::YieldOptions;
+use crate::analysis::{analyse, stage_report_with_yield, Status};
 use crate::board::{read_board, resolve_stage, Origin, RawStage};
-use crate::cli::{Cli, ColorArg, Command, FormatArg, PartsCommand, StageArgs};
+use crate::cli::{Cli, ColorArg, Command, FormatArg, PartsCommand, StageArgs, YieldArgs};
 use crate::error::{Error, Result};
 use crate::parts::{check_file, Library};
 use crate::report::{renderer, write_report, Format, StageReport, SummaryRow};
@@ -14,6 +15,10 @@ use crate::stage::Stage;
 
 mod flags;
 mod parts_view;
+mod progress;
+
+/// Seed of the yield draws when `--seed` is not given.
+pub const DEFAULT_SEED: u64 = 1;
 
 pub use flags::raw_from_flags;
 
@@ -70,7 +75,10 @@ pub fn run(
             let part = lib.require(id, "pinlow parts show")?;
             emit(cli, out, &parts_view::show(part, format))
         }
-        Command::Size(args) => {
+        Command::Size {
+            stage: args,
+            yield_args,
+        } => {
             if args.base_resistor.is_some() {
                 return Err(Error::Usage(
                     "--base-resistor: `size` sizes the base resistor; to check a given one use `pinlow audit ... --base-resistor`".into(),
@@ -78,7 +86,7 @@ pub fn run(
             }
             let lib = Library::load(&paths)?;
             let stage = stage_from_flags(args, &lib)?;
-            report(cli, out, format, color, None, &[stage])
+            report(cli, yield_args, out, format, color, None, &[stage])
         }
         Command::Plot { board, stage } => {
             let lib = Library::load(&paths)?;
@@ -105,13 +113,25 @@ pub fn run(
             out.write_all(written.as_bytes()).map_err(stdout_error)?;
             Ok(0)
         }
-        Command::Audit { board, stage } => {
+        Command::Audit {
+            board,
+            stage,
+            yield_args,
+        } => {
             let lib = Library::load(&paths)?;
             match board {
                 Some(path) => {
                     refuse_flags_with_board(stage)?;
                     let board = read_board(path, &lib)?;
-                    report(cli, out, format, color, board.name, &board.stages)
+                    report(
+                        cli,
+                        yield_args,
+                        out,
+                        format,
+                        color,
+                        board.name,
+                        &board.stages,
+                    )
                 }
                 None => {
                     if stage.base_resistor.is_none() {
@@ -120,7 +140,7 @@ pub fn run(
                         ));
                     }
                     let s = stage_from_flags(stage, &lib)?;
-                    report(cli, out, format, color, None, &[s])
+                    report(cli, yield_args, out, format, color, None, &[s])
                 }
             }
         }
@@ -165,8 +185,10 @@ fn emit(cli: &Cli, out: &mut dyn Write, text: &str) -> Result<u8> {
 }
 
 /// Analyse, draw plots when asked, and stream the report of these stages.
+#[allow(clippy::too_many_arguments)]
 fn report(
     cli: &Cli,
+    yield_args: &YieldArgs,
     out: &mut dyn Write,
     format: Format,
     color: bool,
@@ -190,8 +212,15 @@ fn report(
             .filter(|row| !only || row.verdict != Status::Pass)
             .collect()
     };
+    let yield_opts = yield_args.builds.map(|builds| YieldOptions {
+        builds,
+        seed: yield_args.seed.unwrap_or(DEFAULT_SEED),
+    });
+    let bar = progress::Bar::on_stderr(stages.len());
     let reports = stages.iter().enumerate().map(|(i, s)| {
-        let mut r = stage_report(i + 1, s);
+        let mut r = stage_report_with_yield(i + 1, s, yield_opts.as_ref(), &|done, total| {
+            bar.update(i + 1, &s.name, done, total)
+        });
         r.plot_svg = plots.as_ref().and_then(|p| p.get(i).cloned());
         r
     });
@@ -214,6 +243,7 @@ fn report(
         None => write_report(out, renderer.as_mut(), board, summary, reports, show)
             .map_err(stdout_error)?,
     };
+    bar.finish();
     Ok(exit_code(tail.verdict, cli.strict))
 }
 

@@ -59,13 +59,22 @@ pub enum Command {
   pinlow size --supply 5V --logic-high 3V3 --part 2N3904 --load current --current 150mA
   pinlow size --supply 12V --logic-high 3V3 --part demo-npn-40v --load relay --coil 400 --clamp diode --grade industrial
   pinlow size --supply 12V --logic-high 5V --part demo-npn-1a --load led --led-count 3 --led-vf 3.0 --current 20mA
-  pinlow size --supply 12V --logic-high 3V3 --part demo-npn-1a --load strip --strip-voltage 12V --strip-current-per-metre 0.5A --strip-length 1m")]
-    Size(StageArgs),
+  pinlow size --supply 12V --logic-high 3V3 --part demo-npn-1a --load strip --strip-voltage 12V --strip-current-per-metre 0.5A --strip-length 1m
+  pinlow size --supply 5V --logic-high 3V3 --part 2N3904 --load current --current 100mA --yield 100000")]
+    Size {
+        /// The stage.
+        #[command(flatten)]
+        stage: StageArgs,
+        /// Monte Carlo yield beside the worst case.
+        #[command(flatten)]
+        yield_args: YieldArgs,
+    },
     /// Audit every stage of a board file, or one stage given by flags with --base-resistor.
     #[command(after_help = "Examples:
   pinlow audit examples/greenhouse.json
   pinlow audit examples/greenhouse.json --format json --strict
-  pinlow audit --supply 12V --logic-high 3V3 --part demo-npn-40v --load relay --coil 400 --clamp diode --base-resistor 1k --pull-down 10k")]
+  pinlow audit --supply 12V --logic-high 3V3 --part demo-npn-40v --load relay --coil 400 --clamp diode --base-resistor 1k --pull-down 10k
+  pinlow audit examples/greenhouse.json --yield 1000000 --seed 7")]
     Audit {
         /// A board file (files.md). Without it, the stage flags describe one stage.
         #[arg(value_name = "FILE")]
@@ -73,6 +82,9 @@ pub enum Command {
         /// The stage, when no board file is given.
         #[command(flatten)]
         stage: StageArgs,
+        /// Monte Carlo yield beside the worst case.
+        #[command(flatten)]
+        yield_args: YieldArgs,
     },
     /// Draw an SVG of one stage (stage flags) or of each stage of a board file: output curves,
     /// load line, nominal and worst-case operating points, and overdrive against ambient.
@@ -115,6 +127,30 @@ pub enum PartsCommand {
         #[arg(value_name = "FILE", required = true)]
         files: Vec<PathBuf>,
     },
+}
+
+/// The Monte Carlo yield flags.
+#[derive(Debug, Clone, Copy, Default, Args)]
+pub struct YieldArgs {
+    /// Draw N builds of each stage within its tolerances and report the yield (e.g. 100000, 1e6).
+    #[arg(long = "yield", value_name = "N", value_parser = builds, help_heading = "Yield")]
+    pub builds: Option<u64>,
+    /// Seed of the yield draws; the same seed gives the same figures [default: 1].
+    #[arg(long, value_name = "S", requires = "builds", help_heading = "Yield")]
+    pub seed: Option<u64>,
+}
+
+/// Most builds a run may ask for (a billion builds take about a minute on two cores).
+pub const MAX_BUILDS: u64 = 1_000_000_000;
+
+fn builds(s: &str) -> Result<u64, String> {
+    let n = parse_value(s, ValueKind::Plain).map_err(|e| e.to_string())?;
+    if n.fract() != 0.0 || !(1.0..=MAX_BUILDS as f64).contains(&n) {
+        return Err(format!(
+            "{n} is not allowed: a whole number of builds from 1 to {MAX_BUILDS} is needed"
+        ));
+    }
+    Ok(n as u64)
 }
 
 /// Report formats.

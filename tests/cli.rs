@@ -313,3 +313,58 @@ fn only_problems_hides_passing_stages_but_not_the_verdict() {
     assert!(out.contains("B1 frost alarm buzzer"));
     assert!(out.contains("Board verdict: FAIL"));
 }
+
+#[test]
+fn yield_adds_a_seeded_monte_carlo_to_each_stage() {
+    let args = [
+        "audit",
+        "examples/greenhouse.json",
+        "--format",
+        "json",
+        "--yield",
+        "20000",
+        "--seed",
+        "42",
+    ];
+    let (code, out, err) = run(&args);
+    assert_eq!(code, 1, "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).expect("JSON");
+    for s in v["stages"].as_array().expect("stages") {
+        let y = &s["yield"];
+        assert_eq!(y["builds"], 20000);
+        assert_eq!(y["seed"], 42);
+        for key in ["pinned_low_fraction", "overdrive_met_fraction"] {
+            let f = y[key].as_f64().expect("fraction");
+            assert!((0.0..=1.0).contains(&f), "{key} = {f}");
+        }
+        for key in ["pinned_low_interval", "overdrive_met_interval"] {
+            let lo = y[key][0].as_f64().expect("low");
+            let hi = y[key][1].as_f64().expect("high");
+            assert!(lo <= hi, "{key}");
+        }
+        assert!(y["overdrive_percentiles"]["p50"].is_number());
+        // A stage whose worst case pins the load low pins it low in every build.
+        if s["worst_case"]["overdrive_min"].as_f64().unwrap_or(0.0) >= 1.0 {
+            assert_eq!(y["pinned_low_fraction"], 1.0, "{}", s["name"]);
+        }
+    }
+    // The same seed gives the same figures.
+    let (_, again, _) = run(&args);
+    assert_eq!(out, again);
+    // Without --yield there is no yield object.
+    let (_, plain, _) = run(&["audit", "examples/greenhouse.json", "--format", "json"]);
+    assert!(!plain.contains("\"yield\""));
+    // --seed needs --yield; a fractional or zero count is refused.
+    assert_eq!(
+        run(&["audit", "examples/greenhouse.json", "--seed", "3"]).0,
+        2
+    );
+    assert_eq!(
+        run(&["audit", "examples/greenhouse.json", "--yield", "0"]).0,
+        2
+    );
+    assert_eq!(
+        run(&["audit", "examples/greenhouse.json", "--yield", "2.5"]).0,
+        2
+    );
+}

@@ -33,6 +33,25 @@ fn boards_in_every_format() {
 }
 
 #[test]
+fn yield_in_every_format() {
+    for format in ["table", "json", "markdown"] {
+        let (code, out, err) = run(&[
+            "audit",
+            "examples/greenhouse.json",
+            "--yield",
+            "10000",
+            "--seed",
+            "5",
+            "--only-problems",
+            "--format",
+            format,
+        ]);
+        assert_eq!(code, 1, "{err}");
+        insta::assert_snapshot!(format!("yield-{format}"), out);
+    }
+}
+
+#[test]
 fn board_errors() {
     insta::glob!("fixtures/errors/*.json", |path| {
         let rel = path

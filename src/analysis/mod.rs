@@ -161,10 +161,23 @@ fn cautions(stage: &Stage, wc: &WorstCase) -> Vec<String> {
 
 /// The full report of one stage (with its fixes), numbered `index` in its board.
 pub fn stage_report(index: usize, stage: &Stage) -> crate::report::StageReport {
+    stage_report_with_yield(index, stage, None, &|_, _| {})
+}
+
+/// As [`stage_report`], with a Monte Carlo yield when `opts` asks for one (`progress` hears
+/// `(done, total)` builds).
+pub fn stage_report_with_yield(
+    index: usize,
+    stage: &Stage,
+    opts: Option<&yield_mc::YieldOptions>,
+    progress: &(dyn Fn(u64, u64) + Sync),
+) -> crate::report::StageReport {
     let a = analyse(stage);
     let mut r = crate::report::StageReport::from_analysis(stage, &a);
     r.index = index;
     r.fixes = fixes::propose_fixes(stage, &a);
+    r.yield_mc =
+        opts.map(|o| yield_mc::run_yield_with_progress(stage, a.worst.resistors, o, progress));
     r
 }
 

@@ -4,6 +4,7 @@
 use serde::Serialize;
 
 use crate::analysis::fixes::Fix;
+use crate::analysis::yield_mc::YieldResult;
 use crate::analysis::{Finding, RatingSource, Role, StageAnalysis, Status};
 use crate::quantity::{format_rkm, Base};
 use crate::stage::Stage;
@@ -72,6 +73,9 @@ pub struct StageReport {
     pub fixes: Vec<Fix>,
     /// The SVG drawn for this stage (`--plots DIR`), when one was.
     pub plot_svg: Option<String>,
+    /// Monte Carlo yield (`--yield N`), when asked for.
+    #[serde(rename = "yield", skip_serializing_if = "Option::is_none")]
+    pub yield_mc: Option<YieldResult>,
 }
 
 /// The inputs that shape the corners.
@@ -279,6 +283,7 @@ impl StageReport {
             cautions: a.cautions.clone(),
             fixes: Vec::new(),
             plot_svg: None,
+            yield_mc: None,
         }
     }
 

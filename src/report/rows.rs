@@ -326,6 +326,9 @@ fn stage_into(out: &mut Vec<Block>, s: &StageReport) {
             })
             .collect(),
     });
+    if let Some(y) = &s.yield_mc {
+        yield_blocks(out, y);
+    }
     if !s.fixes.is_empty() {
         let items = s
             .fixes
@@ -342,6 +345,61 @@ fn stage_into(out: &mut Vec<Block>, s: &StageReport) {
             })
             .collect();
         out.push(Block::List(format!("Fixes, {}", s.name), items));
+    }
+}
+
+fn yield_blocks(out: &mut Vec<Block>, y: &crate::analysis::yield_mc::YieldResult) {
+    let share = |f: f64, ci: [f64; 2]| {
+        format!(
+            "{} % (95 % interval {} .. {} %)",
+            plain(Some(f * 100.0), 4),
+            plain(Some(ci[0] * 100.0), 4),
+            plain(Some(ci[1] * 100.0), 4)
+        )
+    };
+    out.push(Block::Line(format!(
+        "Yield over {} builds (seed {}): pinned low in {}; overdrive target met in {}.",
+        y.builds,
+        y.seed,
+        share(y.pinned_low_fraction, y.pinned_low_interval),
+        share(y.overdrive_met_fraction, y.overdrive_met_interval)
+    )));
+    let row = |name: &str, p: &crate::analysis::yield_mc::Percentiles, scale: f64, digits| {
+        let tail = match p.worst_tail {
+            crate::analysis::yield_mc::Tail::Low => "low",
+            crate::analysis::yield_mc::Tail::High => "high",
+        };
+        vec![
+            Cell::from(name),
+            Cell::from(tail),
+            Cell::from(plain(Some(p.p0_1 * scale), digits)),
+            Cell::from(plain(Some(p.p1 * scale), digits)),
+            Cell::from(plain(Some(p.p50 * scale), digits)),
+        ]
+    };
+    let mut rows = vec![
+        row("Overdrive", &y.overdrive_percentiles, 1.0, 3),
+        row("Pin current [mA]", &y.pin_current_percentiles_a, 1e3, 3),
+        row("Tj [°C]", &y.junction_percentiles_c, 1.0, 4),
+    ];
+    if let Some(led) = &y.led_current_percentiles_a {
+        rows.push(row("LED current [mA]", led, 1e3, 3));
+    }
+    out.push(Block::Table {
+        headers: vec![
+            "Figure".into(),
+            "Worse end".into(),
+            "0.1 % worst".into(),
+            "1 % worst".into(),
+            "Median".into(),
+        ],
+        rows,
+    });
+    if y.below_corner_builds > 0 {
+        out.push(Block::Line(format!(
+            "{} builds fell below the worst-case corner: this part's curves break the conditions the corner rests on.",
+            y.below_corner_builds
+        )));
     }
 }
 
