@@ -51,7 +51,7 @@ pub fn propose_fixes(stage: &Stage, a: &StageAnalysis) -> Vec<Fix> {
             )),
             CheckId::CollectorVoltage => collector_voltage(stage, a, f),
             CheckId::JunctionTemp => Some(junction(stage, a, f)),
-            CheckId::CoilPullIn => Some(coil(stage, a, f)),
+            CheckId::CoilPullIn => Some(coil(stage, f)),
             CheckId::ClampRating => clamp_fix(stage, a, CheckId::ClampRating),
             CheckId::LedCurrent => led(stage, a, f),
             CheckId::ResistorPower => resistor_power(stage, a),
@@ -253,7 +253,7 @@ fn junction(stage: &Stage, a: &StageAnalysis, f: &Finding) -> Fix {
     part_only(f, action)
 }
 
-fn coil(stage: &Stage, a: &StageAnalysis, f: &Finding) -> Fix {
+fn coil(stage: &Stage, f: &Finding) -> Fix {
     let available = f.value.unwrap_or(0.0);
     let needed = f.limit.unwrap_or(0.0);
     let action = match &stage.load {
@@ -268,7 +268,6 @@ fn coil(stage: &Stage, a: &StageAnalysis, f: &Finding) -> Fix {
         }
         _ => String::new(),
     };
-    let _ = a;
     part_only(f, action)
 }
 

@@ -4,7 +4,8 @@
 use serde::Serialize;
 
 use super::model::StageReport;
-use super::stream::{model_version, Head, Renderer, Tail};
+use super::model::MODEL_VERSION;
+use super::stream::{Head, Renderer, Tail};
 
 /// Renders a report as pretty-printed JSON, one stage at a time.
 #[derive(Clone, Copy, Debug, Default)]
@@ -27,7 +28,7 @@ impl Renderer for JsonRenderer {
         format!(
             "{{\n  \"board\": {},\n  \"model_version\": {},\n  \"stages\": [",
             pretty(&head.board, 2),
-            model_version()
+            MODEL_VERSION
         )
     }
 

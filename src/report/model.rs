@@ -15,8 +15,9 @@ pub const MODEL_VERSION: u32 = 1;
 /// The caution every report carries.
 pub const GENERAL_CAUTION: &str = "pinlow checks the driver stage against its model only and does not replace a design review; follow local codes and licensed practice, above all where anything touches mains";
 
-/// A whole report: one board (or one stage from flags).
-#[derive(Clone, Debug, Serialize)]
+/// A whole report held in memory: one board (or one stage from flags). Renderers draw it through
+/// [`super::stream`], which adds the verdict line, the assumptions and the cautions.
+#[derive(Clone, Debug)]
 pub struct Report {
     /// Worst stage verdict.
     pub verdict: Status,
@@ -24,10 +25,6 @@ pub struct Report {
     pub stages: Vec<StageReport>,
     /// The board's name, when given.
     pub board: Option<String>,
-    /// Stage-model version.
-    pub model_version: u32,
-    /// Cautions for the whole report.
-    pub cautions: Vec<String>,
 }
 
 /// One stage's results.
@@ -308,8 +305,6 @@ impl Report {
             verdict,
             stages,
             board,
-            model_version: MODEL_VERSION,
-            cautions: vec![GENERAL_CAUTION.to_string()],
         }
     }
 
@@ -325,11 +320,5 @@ impl Report {
                 .collect(),
             ..self.clone()
         }
-    }
-
-    /// Counts of pass, marginal and fail stages.
-    pub fn counts(&self) -> (usize, usize, usize) {
-        let n = |s: Status| self.stages.iter().filter(|r| r.verdict == s).count();
-        (n(Status::Pass), n(Status::Marginal), n(Status::Fail))
     }
 }

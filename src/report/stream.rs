@@ -6,7 +6,7 @@ use std::io::Write;
 
 use serde::Serialize;
 
-use super::model::{Report, StageReport, GENERAL_CAUTION, MODEL_VERSION};
+use super::model::{Report, StageReport, GENERAL_CAUTION};
 use crate::analysis::{CheckId, Status};
 
 /// One line of the board summary.
@@ -184,9 +184,4 @@ pub fn render_report(report: &Report, renderer: &mut dyn Renderer) -> String {
         Ok(_) => String::from_utf8_lossy(&out).into_owned(),
         Err(e) => format!("cannot render: {e}\n"),
     }
-}
-
-/// The model version written in JSON reports.
-pub fn model_version() -> u32 {
-    MODEL_VERSION
 }
