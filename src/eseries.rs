@@ -190,6 +190,32 @@ impl Series {
             .flat_map(move |k| mantissas.iter().map(move |&m| ohms(decimal(m, k))))
             .chain(std::iter::once(ohms(decimal(100, 5))))
     }
+
+    /// The values of [`Series::values`] at or below `r` (within a relative 1e-9), largest first,
+    /// without computing the decades above `r`: the walk of a sizing loop with a known bound.
+    pub fn values_down_from(self, r: Resistance) -> impl Iterator<Item = Resistance> + Clone {
+        let mantissas = self.mantissas();
+        let top = r.base();
+        let limit = top * (1.0 + 1e-9);
+        // The decade 10^k (k from -1 to 4, three-digit mantissas) that holds `top`; every value
+        // of the decades above it is larger than `top`.
+        let start = if top.is_finite() && top > 0.0 {
+            (top.log10().floor() as i32 - 2).clamp(-2, 4)
+        } else if top > 0.0 {
+            4
+        } else {
+            -2
+        };
+        let ten_meg = (limit >= 10e6).then(|| ohms(decimal(100, 5)));
+        ten_meg
+            .into_iter()
+            .chain(
+                (-1..=start)
+                    .rev()
+                    .flat_map(move |k| mantissas.iter().rev().map(move |&m| ohms(decimal(m, k)))),
+            )
+            .skip_while(move |v| v.base() > limit)
+    }
 }
 
 impl fmt::Display for Series {
@@ -300,6 +326,42 @@ mod tests {
         // In every case the formula lands one step of 10 below the table, except 820 (formula 830).
         for (table, f) in departures {
             assert_eq!(table.abs_diff(f), 10, "{table} vs formula {f}");
+        }
+    }
+
+    #[test]
+    fn values_down_from_matches_the_full_walk() {
+        for series in Series::ALL {
+            for top in [
+                0.5,
+                9.99,
+                10.0,
+                10.5,
+                47.0,
+                99.9,
+                100.0,
+                4_700.0,
+                4_699.0,
+                9.1e6,
+                9.999e6,
+                1e7,
+                2e7,
+                f64::INFINITY,
+                f64::NAN,
+                -3.0,
+            ] {
+                let fast: Vec<f64> = series
+                    .values_down_from(ohms(top))
+                    .map(|v| v.base())
+                    .collect();
+                let full: Vec<f64> = series
+                    .values()
+                    .rev()
+                    .map(|v| v.base())
+                    .filter(|v| *v <= top * (1.0 + 1e-9))
+                    .collect();
+                assert_eq!(fast, full, "{series} at {top}");
+            }
         }
     }
 
