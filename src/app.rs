@@ -50,6 +50,7 @@ pub fn run(
         FormatArg::Json => Format::Json,
         FormatArg::Markdown => Format::Markdown,
     };
+    refuse_unused_flags(cli)?;
     match &cli.command {
         Command::Parts(PartsCommand::Check { files }) => {
             let mut text = String::new();
@@ -144,6 +145,26 @@ pub fn run(
                 }
             }
         }
+    }
+}
+
+/// Report flags mean nothing to `parts` and `plot`: say so rather than ignore them.
+fn refuse_unused_flags(cli: &Cli) -> Result<()> {
+    let command = match &cli.command {
+        Command::Parts(_) => "parts",
+        Command::Plot { .. } => "plot",
+        Command::Size { .. } | Command::Audit { .. } => return Ok(()),
+    };
+    let used = [
+        ("--strict", cli.strict),
+        ("--only-problems", cli.only_problems),
+        ("--plots", cli.plots.is_some()),
+    ];
+    match used.iter().find(|(_, set)| *set) {
+        Some((flag, _)) => Err(Error::Usage(format!(
+            "{flag} applies to `size` and `audit` reports, not to `{command}`"
+        ))),
+        None => Ok(()),
     }
 }
 

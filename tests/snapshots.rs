@@ -305,6 +305,21 @@ const FLAG_ERRORS: &[(&str, &[&str])] = &[
         &["audit", "tests/fixtures/no-such-board.json"],
     ),
     (
+        "report-flag-on-parts",
+        &["parts", "list", "--only-problems"],
+    ),
+    (
+        "report-flag-on-plot",
+        &[
+            "plot",
+            "examples/greenhouse.json",
+            "--output",
+            "x.svg",
+            "--plots",
+            "dir",
+        ],
+    ),
+    (
         "zener-without-voltage",
         &[
             "size",
