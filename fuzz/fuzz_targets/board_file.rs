@@ -1,5 +1,5 @@
 //! Fuzz the board-file loader with the shipped parts, then the whole engine: audit (which runs
-//! the fixes) and every renderer. The JSON report must parse back.
+//! the fixes) and every renderer, the SVG plot included. The JSON report must parse back.
 //!
 //! Beyond "no panic", every accepted board must give a sane answer: figures finite, a pass on
 //! pinned-low only at the overdrive asked, a stage verdict that is its worst check. An infinite
@@ -35,6 +35,10 @@ fuzz_target!(|data: &[u8]| {
     };
     for stage in &board.stages {
         sane(stage);
+        // The SVG plot is the fourth renderer (`pinlow plot`); an error is fine, a panic is not.
+        if let Err(e) = pinlow::plot::stage_svg(stage, &analyse(stage)) {
+            assert!(!e.is_empty());
+        }
     }
     let report = audit(board.name.clone(), &board.stages);
     for s in &report.stages {
