@@ -1,0 +1,300 @@
+//! The stage's toleranced inputs as the yield model draws them, and the curves and tables it
+//! reads per build.
+// Indexing reviewed by hand for the no-panic rule (src/lib.rs): every index here runs over a block's fixed-size arrays ([f64; BLOCK]) inside `0..BLOCK`, or over the two-point spans of tables this module builds from the part and checks for length first; no index comes from a user value.
+#![allow(clippy::indexing_slicing)]
+
+use super::*;
+
+/// A range a draw is uniform over, cut in 2^32 steps.
+#[derive(Clone, Copy, Debug)]
+pub(super) struct Span {
+    pub(super) lo: f64,
+    /// (hi - lo) / 2^32 (exact: a power of two).
+    pub(super) step: f64,
+}
+
+impl Span {
+    /// From `lo` to `hi`.
+    pub(super) fn between(lo: f64, hi: f64) -> Span {
+        Span {
+            lo,
+            step: (hi - lo) * UNIT_STEP,
+        }
+    }
+
+    /// `nominal` +/- `tolerance` (a fraction).
+    pub(super) fn tolerance(nominal: f64, tolerance: f64) -> Span {
+        Self::between(nominal * (1.0 - tolerance), nominal * (1.0 + tolerance))
+    }
+
+    /// The point `k` steps up (`k` a whole number below 2^32): the same as lo + (hi - lo) x u
+    /// with u = k / 2^32, to the last bit.
+    #[inline(always)]
+    pub(super) fn at(&self, k: f64) -> f64 {
+        self.lo + self.step * k
+    }
+}
+
+/// The ranges of a stage's toleranced inputs.
+#[derive(Clone, Copy, Debug)]
+pub(super) struct Ranges {
+    pub(super) supply: Span,
+    pub(super) logic_high: Span,
+    pub(super) ambient: Span,
+    pub(super) rb: Span,
+    /// Infinite (no pull-down) or RBE +/- tol.
+    pub(super) rbe: Span,
+    /// The relay coil at 20 C or the LED resistor, +/- their tolerances.
+    pub(super) load: Span,
+}
+
+impl Ranges {
+    pub(super) fn new(stage: &Stage, resistors: Resistors) -> Ranges {
+        let tol = stage.resistor_tolerance;
+        let load = match (&stage.load, resistors.rl) {
+            (Load::Relay(r), _) => Span::tolerance(r.coil_20c.base(), r.tolerance),
+            (Load::Led(_), Some(rl)) => Span::tolerance(rl.base(), tol),
+            _ => Span::between(0.0, 0.0),
+        };
+        Ranges {
+            supply: Span::tolerance(stage.supply.base(), stage.supply_tolerance),
+            logic_high: Span::between(stage.logic_high_min.base(), stage.logic_high.base()),
+            ambient: Span::between(stage.ambient_min.base(), stage.ambient_max.base()),
+            rb: Span::tolerance(resistors.rb.base(), tol),
+            rbe: match resistors.rbe {
+                Some(r) => Span::tolerance(r.base(), tol),
+                None => Span {
+                    lo: f64::INFINITY,
+                    step: 0.0,
+                },
+            },
+            load,
+        }
+    }
+}
+
+/// The load as the model sees it.
+#[derive(Clone, Copy, Debug)]
+pub(super) enum LoadModel {
+    /// A fixed current, A.
+    Current(f64),
+    /// A relay coil: resistance at 20 C and its tolerance.
+    Relay { coil_20c: f64, tolerance: f64 },
+    /// LEDs with a series resistor.
+    Led {
+        count: u32,
+        forward_min: f64,
+        forward_span: f64,
+        rl: f64,
+    },
+    /// LEDs without a resistor (no headroom to size one): the target current stands in for IC,
+    /// as in the corner.
+    LedTarget(f64),
+    /// A strip modelled as a fixed resistor, ohms.
+    Strip(f64),
+}
+
+/// A piecewise-linear curve through sorted points, `K` values a point (sharing the x), with
+/// its slopes precomputed.
+#[derive(Clone, Debug)]
+pub(super) struct Curve<const K: usize> {
+    pub(super) x: Vec<f64>,
+    pub(super) y: Vec<[f64; K]>,
+    pub(super) dydx: Vec<[f64; K]>,
+}
+
+impl<const K: usize> Curve<K> {
+    pub(super) fn new(x: Vec<f64>, y: Vec<[f64; K]>) -> Curve<K> {
+        // Slopes between consecutive points; 0 where two points share an x (the later value is
+        // taken from there on, as `Part`'s interpolation does).
+        let dydx = x
+            .windows(2)
+            .zip(y.windows(2))
+            .map(|(x, y)| {
+                let mut d = [0.0; K];
+                if x[1] > x[0] {
+                    for k in 0..K {
+                        d[k] = (y[1][k] - y[0][k]) / (x[1] - x[0]);
+                    }
+                }
+                d
+            })
+            .collect();
+        Curve { x, y, dydx }
+    }
+
+    /// The values at `x`: held at the first point's below it, `above(last x, last values, x)`
+    /// above the last point, linear between.
+    #[inline(always)]
+    pub(super) fn at(&self, x: f64, above: impl Fn(f64, [f64; K], f64) -> [f64; K]) -> [f64; K] {
+        let xs = &self.x;
+        let n = xs.len();
+        if n == 0 || self.y.len() != n {
+            return [f64::NAN; K];
+        }
+        if x <= xs[0] {
+            return self.y[0];
+        }
+        if x >= xs[n - 1] {
+            return above(xs[n - 1], self.y[n - 1], x);
+        }
+        let mut i = 1;
+        while i < n - 1 && x > xs[i] {
+            i += 1;
+        }
+        if xs[i] == xs[i - 1] {
+            return self.y[i];
+        }
+        let (y0, d) = (self.y[i - 1], self.dydx[i - 1]);
+        let mut out = [0.0; K];
+        for k in 0..K {
+            out[k] = y0[k] + d[k] * (x - xs[i - 1]);
+        }
+        out
+    }
+}
+
+/// ln hFE against ln IC: log-log between points, flat below the first, 1/IC above the last
+/// (the curve of `Part::gain_min_at`, stage-model 3, kept in logs).
+#[derive(Clone, Debug)]
+pub(super) struct GainCurve(pub(super) Curve<1>);
+
+impl GainCurve {
+    pub(super) fn new(points: &[crate::parts::GainPoint]) -> GainCurve {
+        GainCurve(Curve::new(
+            points.iter().map(|p| p.ic.base().ln()).collect(),
+            points.iter().map(|p| [p.hfe.ln()]).collect(),
+        ))
+    }
+
+    pub(super) fn at(&self, ln_ic: f64) -> f64 {
+        // hFE x IC constant above the last point.
+        self.0.at(ln_ic, |xn, [yn], x| [yn + xn - x])[0]
+    }
+}
+
+/// Cells of the table of IC-dependent terms over the builds' collector-current range.
+pub(super) const IC_TABLE_CELLS: usize = 1024;
+/// Cells of the temperature table over the ambient range.
+pub(super) const TEMPERATURE_TABLE_CELLS: usize = 256;
+/// The IC table covers at most IC,max / this .. IC,max; builds below use the exact path.
+pub(super) const IC_TABLE_SPAN: f64 = 4.0;
+
+/// A function of one variable sampled at evenly spaced nodes over [lo, hi] and interpolated
+/// linearly between them. Exact at the nodes (up to one rounding at the right end of a cell);
+/// between them it stays between its two node values, so it keeps the direction (rising or
+/// falling) of the function it samples. The last node sits exactly at `hi`.
+#[derive(Clone, Debug)]
+pub(super) struct Table<const K: usize> {
+    pub(super) lo: f64,
+    pub(super) hi: f64,
+    /// Cells per unit of x (0 for a single point).
+    pub(super) scale: f64,
+    /// Index of the last cell.
+    pub(super) last: i64,
+    /// Per cell: the values at its left node and the rise to its right node.
+    pub(super) cells: Vec<([f64; K], [f64; K])>,
+}
+
+impl<const K: usize> Table<K> {
+    pub(super) fn new(lo: f64, hi: f64, cells: usize, f: impl Fn(f64) -> [f64; K]) -> Table<K> {
+        let n = if hi > lo { cells.max(1) } else { 1 };
+        let step = (hi - lo) / n as f64;
+        let nodes: Vec<[f64; K]> = (0..=n)
+            .map(|i| f(if i == n { hi } else { lo + step * i as f64 }))
+            .collect();
+        let cells = nodes
+            .windows(2)
+            .map(|w| {
+                let mut rise = [0.0; K];
+                for k in 0..K {
+                    rise[k] = w[1][k] - w[0][k];
+                }
+                (w[0], rise)
+            })
+            .collect();
+        Table {
+            lo,
+            hi,
+            scale: if hi > lo { n as f64 / (hi - lo) } else { 0.0 },
+            last: i64::try_from(n).unwrap_or(1) - 1,
+            cells,
+        }
+    }
+
+    /// The interpolated values at `x`; `None` outside [lo, hi].
+    #[inline(always)]
+    pub(super) fn at(&self, x: f64) -> Option<[f64; K]> {
+        if !(x >= self.lo && x <= self.hi) {
+            return None;
+        }
+        let t = (x - self.lo) * self.scale;
+        // t >= 0 here; i64 keeps both conversions single instructions.
+        let i = (t as i64).min(self.last);
+        let frac = (t - i as f64).min(1.0);
+        let (left, rise) = self.cells.get(i as usize)?;
+        let mut out = [0.0; K];
+        for k in 0..K {
+            out[k] = left[k] + rise[k] * frac;
+        }
+        Some(out)
+    }
+}
+
+/// The gain's temperature factor ((Ta + 273.15) / 298.15)^XTB [text: Gummel-Poon], as
+/// `temperature::gain_factor`.
+#[derive(Clone, Debug)]
+pub(super) enum TemperatureGain {
+    /// XTB a multiple of 1/2 (1.5, the usual value, among them): sqrt(ratio) to that many
+    /// halves, by multiplication; no logarithm.
+    Halves(u32),
+    /// Any other XTB: sampled over the ambient range.
+    Table(Table<1>),
+    /// Any other XTB, by `powf` every build.
+    Power,
+}
+
+impl TemperatureGain {
+    /// Halves when XTB is a multiple of 1/2, else `powf` (no table).
+    pub(super) fn exact(xtb: f64) -> TemperatureGain {
+        let halves = 2.0 * xtb;
+        if halves.fract() == 0.0 && (0.0..=16.0).contains(&halves) {
+            // Exact: a whole number from 0 to 16.
+            TemperatureGain::Halves(halves as u32)
+        } else {
+            TemperatureGain::Power
+        }
+    }
+
+    /// Halves when XTB is a multiple of 1/2, else a table over the ambient range.
+    pub(super) fn fast(xtb: f64, ambient_min: f64, ambient_max: f64) -> TemperatureGain {
+        match Self::exact(xtb) {
+            TemperatureGain::Power => TemperatureGain::Table(Table::new(
+                ambient_min,
+                ambient_max,
+                TEMPERATURE_TABLE_CELLS,
+                |t| [temperature_factor(xtb, t)],
+            )),
+            other => other,
+        }
+    }
+
+    #[inline(always)]
+    pub(super) fn at(&self, xtb: f64, ambient_c: f64) -> f64 {
+        match self {
+            TemperatureGain::Halves(k) => {
+                let ratio = temperature_ratio(ambient_c);
+                let mut f = if k % 2 == 1 { ratio.sqrt() } else { 1.0 };
+                for _ in 0..k / 2 {
+                    f *= ratio;
+                }
+                f
+            }
+            TemperatureGain::Table(t) => match t.at(ambient_c) {
+                Some([v]) => v,
+                None => temperature_factor(xtb, ambient_c),
+            },
+            TemperatureGain::Power => temperature_factor(xtb, ambient_c),
+        }
+    }
+}
