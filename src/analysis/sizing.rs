@@ -72,13 +72,13 @@ pub fn size_base_resistor(stage: &Stage, corner: &LoadCorner) -> BaseSizing {
     } else {
         f64::INFINITY
     };
-    for rb in stage
-        .series
-        .values()
-        .rev()
-        .skip_while(|rb| rb.base() > start)
-    {
-        let rbe = pull_down_for(stage, rb);
+    for rb in stage.series.values_down_from(ohms(start)) {
+        let rbe = match stage.pull_down {
+            // Ten times a series value of 100 ohm or more is the series value a decade up,
+            // exactly (whole ohms): the nearest value to 10 x RB without searching for it.
+            PullDown::Sized if rb.base() >= 100.0 => Some(rb * PULL_DOWN_RATIO),
+            _ => pull_down_for(stage, rb),
+        };
         let ib = corner.base_current_min(stage, rb, rbe);
         if ib.base() > 0.0 && corner.overdrive(ib) >= stage.overdrive {
             return BaseSizing {
@@ -170,4 +170,24 @@ pub fn propose_clamp(stage: &Stage, corner: &LoadCorner) -> Option<ClampProposal
         stored_energy,
         decay_time_constant,
     })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::eseries::Series;
+
+    #[test]
+    fn ten_times_a_series_value_is_its_nearest_decade_up() {
+        // The walk's shortcut for the sized pull-down must agree with the search it replaces.
+        for series in Series::ALL {
+            for rb in series.values().filter(|r| r.base() >= 100.0) {
+                assert_eq!(
+                    rb * PULL_DOWN_RATIO,
+                    series.nearest(rb * PULL_DOWN_RATIO),
+                    "{series}"
+                );
+            }
+        }
+    }
 }
