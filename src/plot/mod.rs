@@ -192,34 +192,14 @@ pub fn output_view(stage: &Stage, analysis: &StageAnalysis) -> Result<OutputView
         vt: vt_cold,
     });
 
-    let worst = if ib_min > 0.0 {
-        model_worst
-            .operating_point(ib_min, vcc_max, r_load)
-            .map(|(vce, ic)| OperatingPoint {
-                ib: ib_min,
-                vce,
-                ic,
-            })
-    } else {
-        None
-    };
+    let worst = point_at(&model_worst, ib_min, vcc_max, r_load);
 
     let vcc_nominal = stage.supply.base();
     let vbe_mid = 0.5 * (vbe_min25 + vbe_max25);
     let rb = wc.resistors.rb.base();
     let stolen = wc.resistors.rbe.map(|r| vbe_mid / r.base()).unwrap_or(0.0);
     let ib_nom = (stage.logic_high.base() - vbe_mid) / rb - stolen;
-    let nominal = if ib_nom > 0.0 {
-        model_nominal
-            .operating_point(ib_nom, vcc_nominal, r_load)
-            .map(|(vce, ic)| OperatingPoint {
-                ib: ib_nom,
-                vce,
-                ic,
-            })
-    } else {
-        None
-    };
+    let nominal = point_at(&model_nominal, ib_nom, vcc_nominal, r_load);
 
     let edge = ic_max / beta_nom;
     let mut curve_base_currents = vec![0.5 * edge, edge, 2.0 * edge];
@@ -271,6 +251,17 @@ pub fn overdrive_sweep(stage: &Stage, analysis: &StageAnalysis, points: usize) -
         })
         .filter(|(_, od)| od.is_finite())
         .collect()
+}
+
+/// Where the model settles with base current `ib` on the load line from `vcc` through `r_load`;
+/// `None` when no base current flows or the model finds no point.
+fn point_at(model: &EbersMoll, ib: f64, vcc: f64, r_load: f64) -> Option<OperatingPoint> {
+    if ib <= 0.0 {
+        return None;
+    }
+    model
+        .operating_point(ib, vcc, r_load)
+        .map(|(vce, ic)| OperatingPoint { ib, vce, ic })
 }
 
 /// The stage as one SVG document of two panels (see the module notes).
