@@ -62,8 +62,13 @@ pub fn propose_fixes(stage: &Stage, a: &StageAnalysis) -> Vec<Fix> {
 }
 
 fn part_only(f: &Finding, action: String) -> Fix {
+    advice(f.id, action)
+}
+
+/// A remedy a board file cannot take (another part or circuit): nothing to apply or re-check.
+fn advice(check: CheckId, action: String) -> Fix {
     Fix {
-        check: f.id,
+        check,
         action,
         apply: BTreeMap::new(),
         recheck: None,
@@ -162,13 +167,10 @@ fn pinned_low(stage: &Stage, a: &StageAnalysis) -> Option<Fix> {
             )
         })
         .unwrap_or_else(|| "a part with a lower VBE(sat), or a higher logic level".to_string());
-    Some(Fix {
-        check: CheckId::PinnedLow,
-        action: format!("no base resistor reaches the overdrive within the pin's limit: use {gain}, a Darlington pair, a logic-level MOSFET, or a buffer"),
-        apply: BTreeMap::new(),
-        recheck: None,
-        conflicts: Vec::new(),
-    })
+    Some(advice(
+        CheckId::PinnedLow,
+        format!("no base resistor reaches the overdrive within the pin's limit: use {gain}, a Darlington pair, a logic-level MOSFET, or a buffer"),
+    ))
 }
 
 fn pin_current(a: &StageAnalysis) -> Fix {
@@ -176,13 +178,10 @@ fn pin_current(a: &StageAnalysis) -> Fix {
         .gain_needed_within_pin_limit
         .map(|g| format!("a higher-gain part (minimum gain {g:.0} at the load current, 25 °C)"))
         .unwrap_or_else(|| "a higher-gain part".to_string());
-    Fix {
-        check: CheckId::PinCurrent,
-        action: format!("the pin cannot supply the base current: use {gain}, a Darlington pair, a logic-level MOSFET, or a buffer"),
-        apply: BTreeMap::new(),
-        recheck: None,
-        conflicts: Vec::new(),
-    }
+    advice(
+        CheckId::PinCurrent,
+        format!("the pin cannot supply the base current: use {gain}, a Darlington pair, a logic-level MOSFET, or a buffer"),
+    )
 }
 
 fn stays_off(stage: &Stage, a: &StageAnalysis) -> Option<Fix> {
