@@ -1,6 +1,8 @@
 //! Drawing the two panels of a stage's SVG: the output curves with load lines and operating
 //! points, and the worst-case overdrive against ambient.
 
+use plotters::coord::types::RangedCoordf64;
+
 use super::*;
 
 // Colours of our own choosing.
@@ -112,15 +114,7 @@ fn draw_output_chart<DB: DrawingBackend>(
         .build_cartesian_2d(0.0..x_max, 0.0..y_max_ma)
         .map_err(err)?;
     tags.set(Some(class::AXIS));
-    chart
-        .configure_mesh()
-        .x_desc("VCE [V]")
-        .y_desc("IC [mA]")
-        .light_line_style(RGBColor(235, 235, 235))
-        .label_style((FONT, 14))
-        .axis_desc_style((FONT, 16))
-        .draw()
-        .map_err(err)?;
+    draw_mesh(&mut chart, "VCE [V]", "IC [mA]")?;
 
     tags.set(Some(class::SATURATION));
     chart
@@ -266,15 +260,7 @@ pub(super) fn draw_overdrive_panel<DB: DrawingBackend>(
         .build_cartesian_2d(lo..hi, 0.0..y_max)
         .map_err(err)?;
     tags.set(Some(class::AXIS));
-    chart
-        .configure_mesh()
-        .x_desc("Ambient [°C]")
-        .y_desc("Overdrive")
-        .light_line_style(RGBColor(235, 235, 235))
-        .label_style((FONT, 14))
-        .axis_desc_style((FONT, 16))
-        .draw()
-        .map_err(err)?;
+    draw_mesh(&mut chart, "Ambient [°C]", "Overdrive")?;
 
     tags.set(Some(class::OVERDRIVE_TARGET));
     chart
@@ -376,4 +362,21 @@ fn legend_position(
     } else {
         SeriesLabelPosition::UpperLeft
     }
+}
+
+/// Grid, tick labels and axis titles of a chart, the same on both panels.
+fn draw_mesh<DB: DrawingBackend>(
+    chart: &mut ChartContext<'_, DB, Cartesian2d<RangedCoordf64, RangedCoordf64>>,
+    x_desc: &str,
+    y_desc: &str,
+) -> Result<(), String> {
+    chart
+        .configure_mesh()
+        .x_desc(x_desc)
+        .y_desc(y_desc)
+        .light_line_style(RGBColor(235, 235, 235))
+        .label_style((FONT, 14))
+        .axis_desc_style((FONT, 16))
+        .draw()
+        .map_err(err)
 }
