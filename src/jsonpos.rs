@@ -29,6 +29,40 @@ fn steps(path: &str) -> Option<Vec<Step>> {
 
 /// The 1-based (line, column) where the value at `path` starts, if the text holds it.
 pub fn locate(text: &str, path: &str) -> Option<(usize, usize)> {
+    let pos = value_start(text, path)?;
+    Some(line_column(text, pos))
+}
+
+/// As [`locate`], with the value as typed when it is a scalar (a number, `true`, `null`, or a
+/// short string): errors quote what the user wrote, not what the parser made of it.
+pub fn locate_token(text: &str, path: &str) -> Option<crate::error::Located> {
+    let pos = value_start(text, path)?;
+    let (line, column) = line_column(text, pos);
+    let bytes = text.as_bytes();
+    let token = match bytes.get(pos) {
+        Some(b'{') | Some(b'[') | None => None,
+        Some(_) => skip_value(bytes, pos)
+            .and_then(|end| text.get(pos..end))
+            .filter(|t| t.chars().count() <= 40)
+            .map(str::to_string),
+    };
+    Some(crate::error::Located {
+        line,
+        column,
+        token,
+    })
+}
+
+/// 1-based line and column of a byte position.
+fn line_column(text: &str, pos: usize) -> (usize, usize) {
+    let before = text.get(..pos.min(text.len())).unwrap_or(text);
+    let line = before.matches('\n').count() + 1;
+    let column = before.rsplit('\n').next().map_or(0, |l| l.chars().count()) + 1;
+    (line, column)
+}
+
+/// Byte position where the value at `path` starts (the whole text for an empty path).
+fn value_start(text: &str, path: &str) -> Option<usize> {
     let steps = steps(path)?;
     let bytes = text.as_bytes();
     let mut pos = 0;
@@ -40,11 +74,7 @@ pub fn locate(text: &str, path: &str) -> Option<(usize, usize)> {
             _ => return None,
         }
     }
-    let pos = skip_ws(bytes, pos);
-    let before = text.get(..pos.min(text.len()))?;
-    let line = before.matches('\n').count() + 1;
-    let column = before.rsplit('\n').next().map_or(0, |l| l.chars().count()) + 1;
-    Some((line, column))
+    Some(skip_ws(bytes, pos))
 }
 
 fn skip_ws(b: &[u8], mut pos: usize) -> usize {
@@ -170,6 +200,14 @@ mod tests {
         assert_eq!(locate(TEXT, "defaults.supply_v"), Some((2, 28)));
         assert_eq!(locate(TEXT, "stages[1].load.current_a"), Some((5, 41)));
         assert_eq!(locate(TEXT, "stages[0].load"), Some((4, 30)));
+    }
+
+    #[test]
+    fn tokens_come_as_typed() {
+        let t = locate_token("{\"a\": [1e-400, {\"b\": true}]}", "a[0]").expect("found");
+        assert_eq!((t.line, t.column, t.token.as_deref()), (1, 8, Some("1e-400")));
+        let t = locate_token("{\"a\": {\"b\": 1}}", "a").expect("found");
+        assert_eq!(t.token, None);
     }
 
     #[test]

@@ -1,22 +1,26 @@
-//! A stage: the logic pin, the transistor, its resistors, the load and the conditions it works in,
-//! fully resolved (every default applied and listed as an assumption).
+//! A stage: the logic pin, the switch with its input resistors, the load with its clamp, and the
+//! conditions it works in, fully resolved (every default applied and listed as an assumption).
 
 use std::sync::Arc;
 
-use crate::eseries::Series;
-use crate::load::{Clamp, Load};
-use crate::parts::Part;
-use crate::quantity::{Current, Power, Resistance, Temperature, Voltage};
+use crate::board::RawStage;
+use crate::conditions::Conditions;
+use crate::drive::SharedSwitch;
+use crate::fields::Origin;
+use crate::load::{Clamp, SharedLoad};
 
-/// The pull-down from base to emitter.
-#[derive(Clone, Debug, PartialEq)]
-pub enum PullDown {
-    /// No pull-down fitted.
-    None,
-    /// A given resistor.
-    Given(Resistance),
-    /// Size it: the series value nearest 10 x RB.
-    Sized,
+/// Where a stage came from, kept so that a remedy can be applied to its raw fields and the
+/// stage resolved again.
+#[derive(Clone, Debug)]
+pub struct StageSource {
+    /// The stage's own fields as written.
+    pub own: RawStage,
+    /// The board's defaults.
+    pub defaults: Arc<RawStage>,
+    /// The file or the flags.
+    pub origin: Origin,
+    /// Index in the board's `stages` (0 for flags).
+    pub index: usize,
 }
 
 /// One driver stage, ready for the engine.
@@ -24,58 +28,33 @@ pub enum PullDown {
 pub struct Stage {
     /// The stage's name (`K1 vent relay`).
     pub name: String,
-    /// The transistor.
-    pub part: Arc<Part>,
-    /// Nominal supply.
-    pub supply: Voltage,
-    /// +/- fraction of the supply.
-    pub supply_tolerance: f64,
-    /// The pin's nominal high level (VOH,max).
-    pub logic_high: Voltage,
-    /// The pin's guaranteed high level at its rated current (VOH,min).
-    pub logic_high_min: Voltage,
-    /// The most current the pin may source.
-    pub pin_limit: Current,
-    /// Lowest ambient.
-    pub ambient_min: Temperature,
-    /// Highest ambient.
-    pub ambient_max: Temperature,
+    /// The switch (its part, of one drive kind).
+    pub switch: SharedSwitch,
+    /// Supply, logic pin, ambient, resistors and input resistors.
+    pub conditions: Conditions,
     /// What is switched.
-    pub load: Load,
+    pub load: SharedLoad,
     /// Turn-off clamp (inductive loads).
     pub clamp: Clamp,
-    /// The base resistor; `None` means size it.
-    pub base_resistor: Option<Resistance>,
-    /// The pull-down.
-    pub pull_down: PullDown,
-    /// +/- fraction of every resistor.
-    pub resistor_tolerance: f64,
-    /// Preferred-value series used when sizing.
-    pub series: Series,
-    /// Power rating of the fitted (given) resistors; `None`: 0.25 W assumed where it is used.
-    pub resistor_rating: Option<Power>,
-    /// Wanted ratio of worst-case drive to the bare minimum.
-    pub overdrive: f64,
     /// Every default the stage took, in words.
     pub assumptions: Vec<String>,
+    /// Where it came from.
+    pub source: StageSource,
 }
 
-/// Power rating assumed for a given resistor when the stage states none, W [practice].
-pub const DEFAULT_RESISTOR_RATING_W: f64 = 0.25;
-
 impl Stage {
-    /// The rating given resistors are held to.
-    pub fn fitted_rating(&self) -> Power {
-        self.resistor_rating
-            .unwrap_or_else(|| crate::quantity::watts(DEFAULT_RESISTOR_RATING_W))
+    /// The drive kind's name (`npn`, `nmos`).
+    pub fn drive(&self) -> &'static str {
+        self.switch.kind().name
     }
 
-    /// Highest supply: VCC x (1 + tol).
-    pub fn supply_max(&self) -> Voltage {
-        self.supply * (1.0 + self.supply_tolerance)
+    /// The part's id.
+    pub fn part_id(&self) -> &str {
+        &self.switch.info().id
     }
-    /// Lowest supply: VCC x (1 - tol).
-    pub fn supply_min(&self) -> Voltage {
-        self.supply * (1.0 - self.supply_tolerance)
+
+    /// The load kind's name.
+    pub fn load_kind(&self) -> &'static str {
+        self.load.kind().name
     }
 }

@@ -1,66 +1,39 @@
-//! The resistors a stage uses, with their worst power and the rating they are held to.
+//! The resistors a stage uses, with their worst power and the rating they are held to
+//! (stage-model 5 and 6.4): a sized resistor is held to the rating sized for it, a fitted one to
+//! the stage's fitted rating.
 
 use serde::Serialize;
 
-use super::corners::WorstCase;
-use super::sizing::{power_rating_for, POWER_RATINGS_W};
+use crate::conditions::Conditions;
 use crate::quantity::{watts, Base, Power, Resistance};
-use crate::stage::Stage;
 
-/// Which resistor.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
-#[serde(rename_all = "kebab-case")]
-pub enum Role {
-    /// RB.
-    Base,
-    /// RBE.
-    PullDown,
-    /// RL.
-    Led,
-}
+/// Standard resistor power ratings, W [practice: the usual catalogue steps].
+pub const POWER_RATINGS_W: [f64; 9] = [0.063, 0.1, 0.125, 0.25, 0.5, 1.0, 2.0, 3.0, 5.0];
+/// A resistor is rated at least this many times its worst power [practice].
+pub const POWER_DERATING: f64 = 2.0;
 
-impl Role {
-    /// Short label for reports.
-    pub fn label(self) -> &'static str {
-        match self {
-            Role::Base => "RB",
-            Role::PullDown => "RBE",
-            Role::Led => "RL",
-        }
-    }
-}
-
-/// Where a resistor's power rating comes from.
+/// Where the rating a resistor is held to comes from.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
 #[serde(rename_all = "lowercase")]
 pub enum RatingSource {
-    /// The stage gave `resistor_rating_w`.
+    /// The stage states `resistor_rating_w` for its fitted resistors.
     Given,
-    /// The stage gave none: 0.25 W assumed.
+    /// The stage states none: 0.25 W assumed for its fitted resistors.
     Assumed,
-    /// The resistor was sized; so was its rating.
+    /// The resistor was sized, and so was its rating (stage-model 6.4).
     Proposed,
-}
-
-impl RatingSource {
-    /// `given`, `assumed` or `proposed`.
-    pub fn as_str(self) -> &'static str {
-        match self {
-            RatingSource::Given => "given",
-            RatingSource::Assumed => "assumed",
-            RatingSource::Proposed => "proposed",
-        }
-    }
 }
 
 /// A resistor of the stage.
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct ResistorUse {
-    /// Which one.
-    pub role: Role,
+    /// Symbol (`RB`, `RGS`, `RL`).
+    pub symbol: &'static str,
+    /// Role in reports (`base`, `pull-down`, `led`).
+    pub role: &'static str,
     /// Its value.
     pub value: Resistance,
-    /// Sized by the engine, or given.
+    /// Sized by the engine, or fitted.
     pub sized: bool,
     /// Worst-case dissipation.
     pub worst_power: Power,
@@ -69,57 +42,65 @@ pub struct ResistorUse {
     /// Where that rating comes from.
     pub rating_source: RatingSource,
     /// The smallest standard rating at least twice its worst power (`None` above the largest).
-    pub recommended_rating: Option<Power>,
+    pub needed_rating: Option<Power>,
 }
 
 impl ResistorUse {
+    /// A resistor of the stage with its worst power.
+    pub fn new(
+        c: &Conditions,
+        symbol: &'static str,
+        role: &'static str,
+        value: Resistance,
+        sized: bool,
+        worst_power: Power,
+    ) -> ResistorUse {
+        let needed = power_rating_for(worst_power);
+        let [.., largest] = POWER_RATINGS_W;
+        let (rating, rating_source) = if sized {
+            (needed.unwrap_or(watts(largest)), RatingSource::Proposed)
+        } else if c.resistor_rating.is_some() {
+            (c.fitted_rating(), RatingSource::Given)
+        } else {
+            (c.fitted_rating(), RatingSource::Assumed)
+        };
+        ResistorUse {
+            symbol,
+            role,
+            value,
+            sized,
+            worst_power,
+            rating,
+            rating_source,
+            needed_rating: needed,
+        }
+    }
+
     /// Worst power over rating.
     pub fn load_ratio(&self) -> f64 {
         self.worst_power.base() / self.rating.base()
     }
 }
 
-/// Which of the stage's resistors were sized by the engine.
-#[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
-pub struct SizedFlags {
-    /// RB was sized.
-    pub base: bool,
-    /// RBE was sized.
-    pub pull_down: bool,
-    /// RL was sized.
-    pub led: bool,
+/// The smallest standard rating at least twice the worst power; `None` above 5 W / 2.
+pub fn power_rating_for(worst: Power) -> Option<Power> {
+    POWER_RATINGS_W
+        .iter()
+        .copied()
+        .find(|r| *r >= POWER_DERATING * worst.base())
+        .map(watts)
 }
 
-/// List the resistors of a stage with their worst powers and the ratings they are held to.
-pub fn resistor_uses(stage: &Stage, wc: &WorstCase, sized: SizedFlags) -> Vec<ResistorUse> {
-    let [.., largest_w] = POWER_RATINGS_W;
-    let largest = watts(largest_w);
-    let mut out = Vec::new();
-    let mut push = |role: Role, value: Resistance, was_sized: bool, power: Power| {
-        let recommended = power_rating_for(power);
-        let (rating, source) = if was_sized {
-            (recommended.unwrap_or(largest), RatingSource::Proposed)
-        } else if stage.resistor_rating.is_some() {
-            (stage.fitted_rating(), RatingSource::Given)
-        } else {
-            (stage.fitted_rating(), RatingSource::Assumed)
-        };
-        out.push(ResistorUse {
-            role,
-            value,
-            sized: was_sized,
-            worst_power: power,
-            rating,
-            rating_source: source,
-            recommended_rating: recommended,
-        });
-    };
-    push(Role::Base, wc.resistors.rb, sized.base, wc.rb_power);
-    if let (Some(r), Some(p)) = (wc.resistors.rbe, wc.rbe_power) {
-        push(Role::PullDown, r, sized.pull_down, p);
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn ratings_step_up_to_twice_the_worst_power() {
+        // Common practice: rate a resistor at least twice its worst dissipation.
+        assert_eq!(power_rating_for(watts(0.03)).map(|p| p.base()), Some(0.063));
+        assert_eq!(power_rating_for(watts(0.1)).map(|p| p.base()), Some(0.25));
+        assert_eq!(power_rating_for(watts(0.126)).map(|p| p.base()), Some(0.5));
+        assert_eq!(power_rating_for(watts(3.0)), None);
     }
-    if let (Some(r), Some(p)) = (wc.resistors.rl, wc.rl_power) {
-        push(Role::Led, r, sized.led, p);
-    }
-    out
 }

@@ -1,23 +1,11 @@
-//! The on-disk form of a board file (files.md): every stage field optional (it may stand in
-//! `defaults`), unknown keys refused.
+//! The on-disk form of a board's stage (files.md): every field optional (it may stand in
+//! `defaults`), unknown keys refused. The `load` and `clamp` objects stay raw JSON objects here:
+//! their kind decides which keys they take (`load::KINDS`, `load::Clamp`).
 
 use serde::{Deserialize, Deserializer, Serialize};
+use serde_json::{Map, Value};
 
 use crate::eseries::Series;
-
-/// A board file.
-#[derive(Clone, Debug, Deserialize, Serialize)]
-#[serde(deny_unknown_fields)]
-pub struct RawBoard {
-    /// The board's name.
-    #[serde(default)]
-    pub board: Option<String>,
-    /// Fields every stage takes unless it gives its own.
-    #[serde(default)]
-    pub defaults: RawStage,
-    /// The stages.
-    pub stages: Vec<RawStage>,
-}
 
 /// Temperature grades and their ambient ranges [practice].
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Deserialize, Serialize)]
@@ -51,8 +39,30 @@ impl Grade {
     }
 }
 
+/// The stage keys of files.md, in the order a stage is written.
+pub const STAGE_KEYS: &[&str] = &[
+    "name",
+    "part",
+    "supply_v",
+    "supply_tolerance",
+    "logic_high_v",
+    "logic_high_min_v",
+    "pin_limit_a",
+    "ambient_c",
+    "grade",
+    "load",
+    "clamp",
+    "base_resistor_ohms",
+    "gate_resistor_ohms",
+    "pull_down_ohms",
+    "resistor_tolerance",
+    "resistor_rating_w",
+    "series",
+    "overdrive",
+];
+
 /// One stage (or the defaults) as written.
-#[derive(Clone, Debug, Default, Deserialize, Serialize)]
+#[derive(Clone, Debug, Default, Deserialize, Serialize, PartialEq)]
 #[serde(deny_unknown_fields)]
 pub struct RawStage {
     /// The stage's name (not allowed in defaults).
@@ -82,15 +92,18 @@ pub struct RawStage {
     /// Temperature grade (instead of `ambient_c`).
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub grade: Option<Grade>,
-    /// The load.
+    /// The load object (its `kind` picks the load kind).
     #[serde(default, skip_serializing_if = "Option::is_none")]
-    pub load: Option<RawLoad>,
-    /// The clamp across an inductive load.
+    pub load: Option<Map<String, Value>>,
+    /// The clamp object.
     #[serde(default, skip_serializing_if = "Option::is_none")]
-    pub clamp: Option<RawClamp>,
-    /// Given base resistor, ohms; absent: size it.
+    pub clamp: Option<Map<String, Value>>,
+    /// Given base resistor of an npn stage, ohms; absent: size it.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub base_resistor_ohms: Option<f64>,
+    /// Given gate resistor of an nmos stage, ohms; absent: size it.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub gate_resistor_ohms: Option<f64>,
     /// Pull-down: absent (`None`), `null` (`Some(None)`) or a value.
     #[serde(
         default,
@@ -107,104 +120,23 @@ pub struct RawStage {
     /// Preferred-value series for sizing.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub series: Option<Series>,
-    /// Wanted overdrive.
+    /// Wanted overdrive (npn stages).
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub overdrive: Option<f64>,
+}
+
+impl RawStage {
+    /// The series resistor under `key` (`base_resistor_ohms` or `gate_resistor_ohms`).
+    pub fn series_resistor(&self, key: &str) -> Option<f64> {
+        match key {
+            "base_resistor_ohms" => self.base_resistor_ohms,
+            "gate_resistor_ohms" => self.gate_resistor_ohms,
+            _ => None,
+        }
+    }
 }
 
 /// Tell a key given as `null` (`Some(None)`) from a missing key (`None`, via `default`).
 fn present<'de, D: Deserializer<'de>>(d: D) -> Result<Option<Option<f64>>, D::Error> {
     Option::<f64>::deserialize(d).map(Some)
-}
-
-/// A load as written.
-#[derive(Clone, Debug, Deserialize, Serialize, PartialEq)]
-#[serde(tag = "kind", rename_all = "lowercase", deny_unknown_fields)]
-pub enum RawLoad {
-    /// A fixed current.
-    Current {
-        /// The most the load draws, A.
-        current_a: f64,
-    },
-    /// A relay coil.
-    Relay {
-        /// Coil resistance at 20 C, ohms.
-        coil_ohms: f64,
-        /// +/- fraction.
-        #[serde(default, skip_serializing_if = "Option::is_none")]
-        coil_tolerance: Option<f64>,
-        /// Rated coil voltage, V.
-        #[serde(default, skip_serializing_if = "Option::is_none")]
-        rated_v: Option<f64>,
-        /// Must-operate fraction of the rated voltage.
-        #[serde(default, skip_serializing_if = "Option::is_none")]
-        must_operate_fraction: Option<f64>,
-        /// Inductance, H.
-        #[serde(default, skip_serializing_if = "Option::is_none")]
-        inductance_h: Option<f64>,
-    },
-    /// LEDs in series.
-    Led {
-        /// Number of LEDs.
-        count: u32,
-        /// Nominal forward voltage of one LED, V.
-        forward_v: f64,
-        /// Lowest forward voltage, V.
-        #[serde(default, skip_serializing_if = "Option::is_none")]
-        forward_min_v: Option<f64>,
-        /// Highest forward voltage, V.
-        #[serde(default, skip_serializing_if = "Option::is_none")]
-        forward_max_v: Option<f64>,
-        /// Target current, A.
-        current_a: f64,
-        /// Absolute maximum current, A.
-        #[serde(default, skip_serializing_if = "Option::is_none")]
-        max_current_a: Option<f64>,
-        /// Series resistor, ohms (absent: size it).
-        #[serde(default, skip_serializing_if = "Option::is_none")]
-        resistor_ohms: Option<f64>,
-    },
-    /// A constant-voltage LED strip segment.
-    Strip {
-        /// Rated strip voltage, V.
-        rated_v: f64,
-        /// Current per metre at the rated voltage, A.
-        current_per_m_a: f64,
-        /// Segment length, m.
-        length_m: f64,
-    },
-}
-
-/// A clamp as written.
-#[derive(Clone, Debug, Deserialize, Serialize, PartialEq)]
-#[serde(tag = "kind", rename_all = "lowercase", deny_unknown_fields)]
-pub enum RawClamp {
-    /// No clamp.
-    None,
-    /// A diode across the coil.
-    Diode {
-        /// Forward drop, V.
-        #[serde(default, skip_serializing_if = "Option::is_none")]
-        forward_v: Option<f64>,
-        /// Reverse rating, V.
-        #[serde(default, skip_serializing_if = "Option::is_none")]
-        reverse_v: Option<f64>,
-        /// Current rating, A.
-        #[serde(default, skip_serializing_if = "Option::is_none")]
-        current_a: Option<f64>,
-    },
-    /// Diode plus Zener.
-    Zener {
-        /// Zener voltage, V.
-        zener_v: f64,
-        /// Forward drop of the diode, V.
-        #[serde(default, skip_serializing_if = "Option::is_none")]
-        forward_v: Option<f64>,
-        /// Reverse rating, V.
-        #[serde(default, skip_serializing_if = "Option::is_none")]
-        reverse_v: Option<f64>,
-        /// Current rating, A.
-        #[serde(default, skip_serializing_if = "Option::is_none")]
-        current_a: Option<f64>,
-    },
 }

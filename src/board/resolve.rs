@@ -1,15 +1,19 @@
 //! Resolve a raw stage (own fields over the board defaults over the model's defaults) into a
 //! typed [`Stage`], validating every value where it stands and listing each default taken.
 
-use super::fields::{flag_for, fraction, pct, raw_kind, sub_place, within};
-use super::raw::{Grade, RawClamp, RawLoad, RawStage};
-use crate::error::{Error, Result};
+use std::sync::Arc;
+
+use super::raw::{Grade, RawStage};
+use crate::conditions::{Conditions, InputResistors, PullDown};
+use crate::drive::{self, SharedSwitch};
+use crate::error::{Error, Place, Result};
 use crate::eseries::Series;
-use crate::load::{Clamp, Led, Load, Relay, Strip};
-use crate::parts::Library;
-use crate::quantity::limits::{show_number, AMPS, HENRIES, METRES, OHMS, VOLTS, WATTS};
-use crate::quantity::{amps, celsius, format_engineering as fe, henries, ohms, volts, watts};
-use crate::stage::{PullDown, Stage};
+use crate::fields::{check_fraction, pct, Origin, Resolution};
+use crate::load::{self, Clamp};
+use crate::parts::{is_control, Library};
+use crate::quantity::limits::{show_number, Span, AMPS, OHMS, VOLTS, WATTS};
+use crate::quantity::{amps, celsius, format_engineering as fe, ohms, volts, watts};
+use crate::stage::{Stage, StageSource};
 
 /// Supply tolerance when none is given [practice].
 pub const DEFAULT_SUPPLY_TOLERANCE: f64 = 0.05;
@@ -17,14 +21,6 @@ pub const DEFAULT_SUPPLY_TOLERANCE: f64 = 0.05;
 pub const DEFAULT_LOGIC_HIGH_DROP_V: f64 = 0.4;
 /// Pin source limit when none is given, A [practice, conservative].
 pub const DEFAULT_PIN_LIMIT_A: f64 = 0.004;
-/// Coil resistance tolerance when none is given [practice].
-pub const DEFAULT_COIL_TOLERANCE: f64 = 0.10;
-/// Must-operate fraction of the rated coil voltage when none is given [practice].
-pub const DEFAULT_MUST_OPERATE_FRACTION: f64 = 0.75;
-/// LED forward voltage spread when no limits are given, V per LED [memory].
-pub const DEFAULT_LED_VF_SPREAD_V: f64 = 0.2;
-/// Clamp diode forward drop when none is given, V [memory].
-pub const DEFAULT_CLAMP_FORWARD_V: f64 = 1.0;
 /// Resistor tolerance when none is given [practice].
 pub const DEFAULT_RESISTOR_TOLERANCE: f64 = 0.05;
 /// Overdrive when none is given [practice: 2 to 5].
@@ -36,113 +32,165 @@ pub const DEFAULT_OVERDRIVE: f64 = 2.0;
 /// temperature model positive.
 pub const AMBIENT_RANGE_C: std::ops::RangeInclusive<f64> = -100.0..=250.0;
 
-/// Where a stage was written: a board file or the command line.
-#[derive(Clone, Debug)]
-pub enum Origin {
-    /// A board file (its name as given) and the stage's index.
-    File {
-        /// The file name.
-        file: String,
-        /// Index in `stages`.
-        index: usize,
-    },
-    /// Stage flags on the command line.
-    Flags,
+/// The command-line flag that sets a stage key.
+pub fn flag_for(key: &str) -> &'static str {
+    match key {
+        "name" => "--name",
+        "part" => "--part",
+        "supply_v" => "--supply",
+        "supply_tolerance" => "--supply-tolerance",
+        "logic_high_v" => "--logic-high",
+        "logic_high_min_v" => "--logic-high-min",
+        "pin_limit_a" => "--pin-limit",
+        "ambient_c" => "--ambient",
+        "grade" => "--grade",
+        "load" => "--load",
+        "clamp" => "--clamp",
+        "pull_down_ohms" => "--pull-down",
+        "resistor_tolerance" => "--resistor-tolerance",
+        "resistor_rating_w" => "--resistor-rating",
+        "series" => "--series",
+        "overdrive" => "--overdrive",
+        k => drive::KINDS
+            .iter()
+            .find(|d| d.series.key == k)
+            .map(|d| d.series.flag)
+            .unwrap_or("the stage flags"),
+    }
 }
 
-/// Resolve one stage.
+/// Resolve one stage, looking its part up in `lib`.
 pub fn resolve_stage(
     own: &RawStage,
-    defaults: &RawStage,
+    defaults: &Arc<RawStage>,
     origin: &Origin,
+    index: usize,
     lib: &Library,
+) -> Result<Stage> {
+    resolve_with(own, defaults, origin, index, &|id, place| {
+        lib.require(id, place).cloned()
+    })
+}
+
+/// Resolve one stage with `part(id, place)` to find its part.
+pub fn resolve_with(
+    own: &RawStage,
+    defaults: &Arc<RawStage>,
+    origin: &Origin,
+    index: usize,
+    part: &dyn Fn(&str, Place) -> Result<SharedSwitch>,
 ) -> Result<Stage> {
     Resolver {
         own,
         defaults,
         origin,
+        index,
         assumptions: Vec::new(),
     }
-    .run(lib)
+    .run(part)
 }
 
 struct Resolver<'a> {
     own: &'a RawStage,
-    defaults: &'a RawStage,
+    defaults: &'a Arc<RawStage>,
     origin: &'a Origin,
+    index: usize,
     assumptions: Vec<String>,
 }
 
 impl Resolver<'_> {
-    /// Where `key` stands: the stage itself, or the defaults when only they give it.
-    fn place(&self, key: &str, from_defaults: bool) -> String {
-        match self.origin {
-            Origin::File { file, index } => {
-                if from_defaults {
-                    format!("{file}: defaults.{key}")
-                } else {
-                    format!("{file}: stages[{index}].{key}")
-                }
-            }
-            Origin::Flags => flag_for(key).to_string(),
+    /// The JSON path of `key` in the stage (or in the defaults).
+    fn path(&self, key: &str, from_defaults: bool) -> String {
+        if from_defaults {
+            format!("defaults.{key}")
+        } else {
+            format!("stages[{}].{key}", self.index)
         }
+    }
+
+    /// Where `key` stands: the stage itself, or the defaults when only they give it.
+    fn place(&self, key: &str, from_defaults: bool) -> Place {
+        match self.origin {
+            Origin::File(file) => Place::json(file.clone(), self.path(key, from_defaults)),
+            Origin::Flags => Place::Flag(flag_for(key).to_string()),
+        }
+    }
+
+    /// Own value, else the default's, with whether it came from the defaults.
+    fn pick<T: Clone>(&self, get: impl Fn(&RawStage) -> Option<T>) -> Option<(T, bool)> {
+        if let Some(v) = get(self.own) {
+            return Some((v, false));
+        }
+        get(self.defaults).map(|v| (v, true))
     }
 
     /// Own value, else the default's, with its place.
-    fn pick<T: Clone>(
-        &self,
-        key: &str,
-        get: impl Fn(&RawStage) -> Option<T>,
-    ) -> Option<(T, String)> {
-        if let Some(v) = get(self.own) {
-            return Some((v, self.place(key, false)));
-        }
-        get(self.defaults).map(|v| (v, self.place(key, true)))
+    fn pick_at<T: Clone>(&self, key: &str, get: impl Fn(&RawStage) -> Option<T>) -> Option<(T, Place)> {
+        self.pick(get).map(|(v, d)| (v, self.place(key, d)))
     }
 
     fn missing(&self, key: &str, what: &str) -> Error {
-        let place = match self.origin {
-            Origin::File { file, index } => format!("{file}: stages[{index}]"),
-            Origin::Flags => flag_for(key).to_string(),
-        };
-        let hint = match self.origin {
-            Origin::File { .. } => {
-                format!("missing `{key}` ({what}); give it in the stage or in `defaults`")
-            }
-            Origin::Flags => format!("missing ({what})"),
-        };
-        Error::invalid(place, hint)
+        match self.origin {
+            Origin::File(file) => Error::invalid(
+                Place::json(file.clone(), format!("stages[{}]", self.index)),
+                format!("missing `{key}` ({what}); give it in the stage or in `defaults`"),
+            ),
+            Origin::Flags => Error::invalid(Place::Flag(flag_for(key).into()), format!("missing ({what})")),
+        }
     }
 
-    fn run(mut self, lib: &Library) -> Result<Stage> {
+    fn within(v: f64, span: Span, place: Place) -> Result<f64> {
+        match span.reason(v) {
+            None => Ok(v),
+            Some(reason) => Err(Error::range(place, show_number(v), reason)),
+        }
+    }
+
+    fn assume(&mut self, text: String) {
+        self.assumptions.push(text);
+    }
+
+    fn run(mut self, find_part: &dyn Fn(&str, Place) -> Result<SharedSwitch>) -> Result<Stage> {
         if self.defaults.name.is_some() {
             return Err(Error::invalid(
                 self.place("name", true),
                 "a name belongs to one stage, not to the defaults",
             ));
         }
-        let name = match (&self.own.name, self.origin) {
-            (Some(n), _) if !n.trim().is_empty() => n.clone(),
-            (Some(_), _) => {
-                return Err(Error::invalid(
-                    self.place("name", false),
-                    "must not be empty",
-                ))
+        let given_name = match &self.own.name {
+            Some(n) if n.trim().is_empty() => {
+                return Err(Error::invalid(self.place("name", false), "must not be empty"))
             }
-            (None, Origin::File { .. }) => return Err(self.missing("name", "the stage's name")),
-            (None, Origin::Flags) => "stage".to_string(),
+            Some(n) => {
+                if let Some(c) = n.chars().find(|c| is_control(*c)) {
+                    return Err(Error::invalid(
+                        self.place("name", false),
+                        format!(
+                            "holds the control character U+{:04X}; names may hold printable characters only",
+                            u32::from(c)
+                        ),
+                    ));
+                }
+                Some(n.clone())
+            }
+            None if matches!(self.origin, Origin::File(_)) => {
+                return Err(self.missing("name", "the stage's name"))
+            }
+            None => None,
         };
         let (part_id, part_place) = self
-            .pick("part", |r| r.part.clone())
+            .pick_at("part", |r| r.part.clone())
             .ok_or_else(|| self.missing("part", "a part id from the parts library"))?;
-        let part = lib.require(&part_id, &part_place)?.clone();
+        let switch = find_part(&part_id, part_place)?;
+        let kind = switch.kind();
+        self.drive_keys(kind)?;
 
         let (supply, at) = self
-            .pick("supply_v", |r| r.supply_v)
+            .pick_at("supply_v", |r| r.supply_v)
             .ok_or_else(|| self.missing("supply_v", "the supply voltage"))?;
-        let supply = within(supply, VOLTS, &at)?;
-        let supply_tolerance = match self.pick("supply_tolerance", |r| r.supply_tolerance) {
-            Some((v, at)) => fraction(v, &at)?,
+        let supply = Self::within(supply, VOLTS, at)?;
+        let supply_tolerance = match self.pick_at("supply_tolerance", |r| r.supply_tolerance) {
+            Some((v, at)) => check_fraction(v, at)?,
             None => {
                 self.assume(format!(
                     "supply tolerance ±{} assumed [practice]",
@@ -151,17 +199,21 @@ impl Resolver<'_> {
                 DEFAULT_SUPPLY_TOLERANCE
             }
         };
-        let (logic_high, at_high) = self
-            .pick("logic_high_v", |r| r.logic_high_v)
+        let (logic_high, at) = self
+            .pick_at("logic_high_v", |r| r.logic_high_v)
             .ok_or_else(|| self.missing("logic_high_v", "the pin's logic-high voltage"))?;
-        let logic_high = within(logic_high, VOLTS, &at_high)?;
-        let logic_high_min = match self.pick("logic_high_min_v", |r| r.logic_high_min_v) {
+        let logic_high = Self::within(logic_high, VOLTS, at)?;
+        let logic_high_min = match self.pick_at("logic_high_min_v", |r| r.logic_high_min_v) {
             Some((v, at)) => {
-                let v = within(v, VOLTS, &at)?;
+                let v = Self::within(v, VOLTS, at.clone())?;
                 if v > logic_high {
                     return Err(Error::invalid(
                         at,
-                        format!("the guaranteed logic high {v} V is above the nominal {logic_high} V; it must not be"),
+                        format!(
+                            "the guaranteed logic high {} V is above the nominal {} V; it must not be",
+                            show_number(v),
+                            show_number(logic_high)
+                        ),
                     ));
                 }
                 v
@@ -175,8 +227,8 @@ impl Resolver<'_> {
                 v
             }
         };
-        let pin_limit = match self.pick("pin_limit_a", |r| r.pin_limit_a) {
-            Some((v, at)) => within(v, AMPS, &at)?,
+        let pin_limit = match self.pick_at("pin_limit_a", |r| r.pin_limit_a) {
+            Some((v, at)) => Self::within(v, AMPS, at)?,
             None => {
                 self.assume(format!(
                     "pin limit {} assumed [practice, conservative]",
@@ -186,23 +238,91 @@ impl Resolver<'_> {
             }
         };
         let (t_min, t_max) = self.ambient()?;
-        let (load, load_at) = self
-            .pick("load", |r| r.load.clone())
-            .ok_or_else(|| self.missing("load", "the load: current, relay, led or strip"))?;
-        let load = self.load(&load, &load_at, supply)?;
-        let clamp = self.clamp(&load)?;
-        let base_resistor = match self.pick("base_resistor_ohms", |r| r.base_resistor_ohms) {
-            Some((v, at)) => Some(ohms(within(v, OHMS, &at)?)),
+        let series_key = kind.series.key;
+        let series_resistor = match self.pick(|r| r.series_resistor(series_key)) {
+            Some((v, d)) => Some(ohms(Self::within(v, OHMS, self.place(series_key, d))?)),
             None => None,
         };
-        let pull_down = match self.pick("pull_down_ohms", |r| r.pull_down_ohms) {
-            Some((Some(v), at)) => PullDown::Given(ohms(within(v, OHMS, &at)?)),
+        let pull_down = match self.pick(|r| r.pull_down_ohms) {
+            Some((Some(v), d)) => PullDown::Given(ohms(Self::within(v, OHMS, self.place("pull_down_ohms", d))?)),
             Some((None, _)) => PullDown::None,
-            None if base_resistor.is_some() => PullDown::None,
+            // files.md: with a given series resistor a missing pull-down means none; when
+            // sizing, it is sized.
+            None if series_resistor.is_some() => PullDown::None,
             None => PullDown::Sized,
         };
-        let resistor_tolerance = match self.pick("resistor_tolerance", |r| r.resistor_tolerance) {
-            Some((v, at)) => fraction(v, &at)?,
+        let mut conditions = Conditions {
+            supply: volts(supply),
+            supply_tolerance,
+            logic_high: volts(logic_high),
+            logic_high_min: volts(logic_high_min),
+            pin_limit: amps(pin_limit),
+            ambient_min: celsius(t_min),
+            ambient_max: celsius(t_max),
+            resistor_tolerance: DEFAULT_RESISTOR_TOLERANCE,
+            series: Series::E24,
+            resistor_rating: None,
+            inputs: InputResistors {
+                series: series_resistor,
+                pull_down,
+            },
+            overdrive: DEFAULT_OVERDRIVE,
+        };
+
+        let (raw_load, from_defaults) = self
+            .pick(|r| r.load.clone())
+            .ok_or_else(|| self.missing("load", &format!("the load: {}", load::kind_names())))?;
+        let load_path = self.path("load", from_defaults);
+        let kind_name = match raw_load.get("kind") {
+            Some(serde_json::Value::String(k)) => k.clone(),
+            _ => {
+                return Err(Error::invalid(
+                    self.place("load", from_defaults),
+                    format!("a load needs `kind`: {}", load::kind_names()),
+                ))
+            }
+        };
+        let load_kind = load::kind(&kind_name).ok_or_else(|| {
+            let place = match self.origin {
+                Origin::File(f) => Place::json(f.clone(), format!("{load_path}.kind")),
+                Origin::Flags => Place::Flag("--load".into()),
+            };
+            Error::invalid(
+                place,
+                format!("unknown load kind `{kind_name}`; the kinds are {}", load::kind_names()),
+            )
+        })?;
+        let mut notes = std::mem::take(&mut self.assumptions);
+        let load = {
+            let mut res = Resolution {
+                conditions: &conditions,
+                assumptions: &mut notes,
+            };
+            load_kind.read(&raw_load, self.origin, &load_path, &mut res)?
+        };
+        let clamp = match self.pick(|r| r.clamp.clone()) {
+            Some((raw, from_defaults)) => {
+                let mut res = Resolution {
+                    conditions: &conditions,
+                    assumptions: &mut notes,
+                };
+                let clamp = Clamp::resolve(&raw, self.origin, &self.path("clamp", from_defaults), &mut res)?;
+                if load.kick(&conditions).is_none() && clamp != Clamp::None {
+                    notes.push(format!(
+                        "the {} clamp is not used: a {} load does not kick back at turn-off",
+                        clamp.kind_name(),
+                        load_kind.name
+                    ));
+                    Clamp::None
+                } else {
+                    clamp
+                }
+            }
+            None => Clamp::None,
+        };
+        self.assumptions = notes;
+        let resistor_tolerance = match self.pick_at("resistor_tolerance", |r| r.resistor_tolerance) {
+            Some((v, at)) => check_fraction(v, at)?,
             None => {
                 self.assume(format!(
                     "resistor tolerance ±{} assumed [practice]",
@@ -211,76 +331,98 @@ impl Resolver<'_> {
                 DEFAULT_RESISTOR_TOLERANCE
             }
         };
-        let sizes_something =
-            base_resistor.is_none() || matches!(&load, Load::Led(Led { resistor: None, .. }));
-        let series = match self.pick("series", |r| r.series) {
-            Some((s, _)) => s,
-            None => {
-                if sizes_something {
-                    self.assume("E24 series assumed for sized values [std IEC 60063]".to_string());
-                }
-                Series::E24
-            }
-        };
-        let resistor_rating = match self.pick("resistor_rating_w", |r| r.resistor_rating_w) {
-            Some((v, at)) => Some(watts(within(v, WATTS, &at)?)),
+        let resistor_rating = match self.pick_at("resistor_rating_w", |r| r.resistor_rating_w) {
+            Some((v, at)) => Some(watts(Self::within(v, WATTS, at)?)),
             None => None,
         };
-        let overdrive = match self.pick("overdrive", |r| r.overdrive) {
-            Some((v, at)) => {
-                if !(v.is_finite() && (1.0..=1000.0).contains(&v)) {
-                    return Err(Error::invalid(
-                        at,
-                        format!("{} is not allowed: an overdrive from 1 to 1000 is needed (2 to 5 is usual)", show_number(v)),
-                    ));
+        let series_given = self.pick(|r| r.series).map(|(s, _)| s);
+        conditions.resistor_tolerance = resistor_tolerance;
+        conditions.resistor_rating = resistor_rating;
+        let sizes_something =
+            series_resistor.is_none() || load.own_resistor_given() == Some(None);
+        if series_given.is_none() && sizes_something {
+            self.assume("E24 series assumed for sized values [std IEC 60063]".to_string());
+        }
+        conditions.series = series_given.unwrap_or(Series::E24);
+        let overdrive = if kind.stage_keys.contains(&"overdrive") {
+            match self.pick_at("overdrive", |r| r.overdrive) {
+                Some((v, at)) => {
+                    if !(v.is_finite() && (1.0..=1000.0).contains(&v)) {
+                        return Err(Error::range(
+                            at,
+                            show_number(v),
+                            "an overdrive from 1 to 1000 is needed (2 to 5 is usual)",
+                        ));
+                    }
+                    v
                 }
-                v
+                None => {
+                    self.assume("overdrive 2 assumed [practice: 2 to 5]".to_string());
+                    DEFAULT_OVERDRIVE
+                }
             }
-            None => {
-                self.assume("overdrive 2 assumed [practice: 2 to 5]".to_string());
-                DEFAULT_OVERDRIVE
-            }
+        } else {
+            DEFAULT_OVERDRIVE
         };
-        if part.gain_temp_exponent_assumed {
-            self.assume(format!(
-                "part {}: gain temperature exponent XTB 1.5 assumed [text, memory]",
-                part.id
-            ));
-        }
-        if part.icbo_assumed {
-            self.assume(format!(
-                "part {}: ICBO 50 nA at 25 °C assumed [memory]",
-                part.id
-            ));
-        }
+        conditions.overdrive = overdrive;
+        let mut assumptions = self.assumptions;
+        assumptions.extend(switch.assumptions());
+        let name = given_name.unwrap_or_else(|| format!("{} stage", load_kind.name));
         Ok(Stage {
             name,
-            part,
-            supply: volts(supply),
-            supply_tolerance,
-            logic_high: volts(logic_high),
-            logic_high_min: volts(logic_high_min),
-            pin_limit: amps(pin_limit),
-            ambient_min: celsius(t_min),
-            ambient_max: celsius(t_max),
+            switch,
+            conditions,
             load,
             clamp,
-            base_resistor,
-            pull_down,
-            resistor_tolerance,
-            series,
-            resistor_rating,
-            overdrive,
-            assumptions: self.assumptions,
+            assumptions,
+            source: StageSource {
+                own: self.own.clone(),
+                defaults: Arc::clone(self.defaults),
+                origin: self.origin.clone(),
+                index: self.index,
+            },
         })
     }
 
-    fn assume(&mut self, text: String) {
-        self.assumptions.push(text);
+    /// Keys of another drive kind on the stage itself are errors that name the right key.
+    fn drive_keys(&self, kind: &'static drive::DriveKind) -> Result<()> {
+        for other in drive::KINDS.iter().filter(|k| k.name != kind.name) {
+            let key = other.series.key;
+            if key != kind.series.key && self.own.series_resistor(key).is_some() {
+                return Err(Error::invalid(
+                    self.place(key, false),
+                    format!(
+                        "`{key}` belongs to {} stages; the part `{}` is {}: give `{}` ({} {})",
+                        other.name,
+                        self.own.part.as_deref().or(self.defaults.part.as_deref()).unwrap_or("?"),
+                        kind.name,
+                        kind.series.key,
+                        kind.series.symbol,
+                        kind.series.role
+                    ),
+                ));
+            }
+            for key in other.stage_keys.iter().filter(|k| !kind.stage_keys.contains(k)) {
+                let given = match *key {
+                    "overdrive" => self.own.overdrive.is_some(),
+                    _ => false,
+                };
+                if given {
+                    return Err(Error::invalid(
+                        self.place(key, false),
+                        format!(
+                            "`{key}` applies to {} stages only; a {} stage takes none",
+                            other.name, kind.name
+                        ),
+                    ));
+                }
+            }
+        }
+        Ok(())
     }
 
     fn ambient(&mut self) -> Result<(f64, f64)> {
-        for (raw, from_defaults) in [(self.own, false), (self.defaults, true)] {
+        for (raw, from_defaults) in [(self.own, false), (self.defaults.as_ref(), true)] {
             match (raw.ambient_c, raw.grade) {
                 (Some(_), Some(_)) => {
                     return Err(Error::invalid(
@@ -292,12 +434,11 @@ impl Resolver<'_> {
                     let at = self.place("ambient_c", from_defaults);
                     let ok = |t: f64| t.is_finite() && AMBIENT_RANGE_C.contains(&t);
                     if !ok(lo) || !ok(hi) {
-                        return Err(Error::invalid(
+                        return Err(Error::range(
                             at,
+                            format!("[{}, {}]", show_number(lo), show_number(hi)),
                             format!(
-                                "[{}, {}] is not allowed: ambient temperatures from {} to {} °C are needed",
-                                show_number(lo),
-                                show_number(hi),
+                                "ambient temperatures from {} to {} °C are needed",
                                 AMBIENT_RANGE_C.start(),
                                 AMBIENT_RANGE_C.end()
                             ),
@@ -306,7 +447,11 @@ impl Resolver<'_> {
                     if lo > hi {
                         return Err(Error::invalid(
                             at,
-                            format!("the minimum {lo} °C is above the maximum {hi} °C"),
+                            format!(
+                                "the minimum {} °C is above the maximum {} °C",
+                                show_number(lo),
+                                show_number(hi)
+                            ),
                         ));
                     }
                     return Ok((lo, hi));
@@ -320,186 +465,5 @@ impl Resolver<'_> {
             "ambient {lo} .. {hi} °C assumed (commercial grade) [practice]"
         ));
         Ok((lo, hi))
-    }
-
-    fn load(&mut self, raw: &RawLoad, at: &str, supply: f64) -> Result<Load> {
-        let key = |k: &str| -> String { sub_place(at, k, self.origin, "load", raw_kind(raw)) };
-        Ok(match raw {
-            RawLoad::Current { current_a } => Load::Current {
-                current: amps(within(*current_a, AMPS, &key("current_a"))?),
-            },
-            RawLoad::Relay {
-                coil_ohms,
-                coil_tolerance,
-                rated_v,
-                must_operate_fraction,
-                inductance_h,
-            } => {
-                let coil = within(*coil_ohms, OHMS, &key("coil_ohms"))?;
-                let tolerance = match coil_tolerance {
-                    Some(v) => fraction(*v, &key("coil_tolerance"))?,
-                    None => {
-                        self.assume(format!(
-                            "coil tolerance ±{} assumed [practice]",
-                            pct(DEFAULT_COIL_TOLERANCE)
-                        ));
-                        DEFAULT_COIL_TOLERANCE
-                    }
-                };
-                let rated = match rated_v {
-                    Some(v) => within(*v, VOLTS, &key("rated_v"))?,
-                    None => {
-                        self.assume(format!(
-                            "coil rated voltage {} assumed (the nominal supply)",
-                            fe(supply, "V")
-                        ));
-                        supply
-                    }
-                };
-                let must = match must_operate_fraction {
-                    Some(v) if v.is_finite() && *v > 0.0 && *v <= 1.0 => *v,
-                    Some(v) => return Err(Error::invalid(key("must_operate_fraction"), format!("{} is not allowed: a fraction above 0 and at most 1 is needed (0.75 is usual)", show_number(*v)))),
-                    None => {
-                        self.assume(format!("must-operate voltage {} of rated assumed [practice]", pct(DEFAULT_MUST_OPERATE_FRACTION)));
-                        DEFAULT_MUST_OPERATE_FRACTION
-                    }
-                };
-                let inductance = match inductance_h {
-                    Some(v) => Some(henries(within(*v, HENRIES, &key("inductance_h"))?)),
-                    None => None,
-                };
-                Load::Relay(Relay {
-                    coil_20c: ohms(coil),
-                    tolerance,
-                    rated: volts(rated),
-                    must_operate_fraction: must,
-                    inductance,
-                })
-            }
-            RawLoad::Led {
-                count,
-                forward_v,
-                forward_min_v,
-                forward_max_v,
-                current_a,
-                max_current_a,
-                resistor_ohms,
-            } => {
-                if *count == 0 || *count > 1000 {
-                    return Err(Error::invalid(
-                        key("count"),
-                        format!("{count} is not allowed: 1 to 1000 LEDs in series are needed"),
-                    ));
-                }
-                let vf = within(*forward_v, VOLTS, &key("forward_v"))?;
-                let lo = match forward_min_v {
-                    Some(v) => Some(within(*v, VOLTS, &key("forward_min_v"))?),
-                    None => None,
-                };
-                let hi = match forward_max_v {
-                    Some(v) => Some(within(*v, VOLTS, &key("forward_max_v"))?),
-                    None => None,
-                };
-                if lo.is_none() || hi.is_none() {
-                    self.assume(format!(
-                        "LED forward voltage spread ±{} per LED assumed [memory]",
-                        fe(DEFAULT_LED_VF_SPREAD_V, "V")
-                    ));
-                }
-                let lo = lo.unwrap_or((vf - DEFAULT_LED_VF_SPREAD_V).max(0.0));
-                let hi = hi.unwrap_or(vf + DEFAULT_LED_VF_SPREAD_V);
-                if lo > vf || vf > hi {
-                    return Err(Error::invalid(key("forward_v"), format!("the forward voltages must run min <= nominal <= max; got {lo} <= {vf} <= {hi} V")));
-                }
-                let current = within(*current_a, AMPS, &key("current_a"))?;
-                let max_current = match max_current_a {
-                    Some(v) => Some(amps(within(*v, AMPS, &key("max_current_a"))?)),
-                    None => None,
-                };
-                let resistor = match resistor_ohms {
-                    Some(v) => Some(ohms(within(*v, OHMS, &key("resistor_ohms"))?)),
-                    None => None,
-                };
-                Load::Led(Led {
-                    count: *count,
-                    forward: volts(vf),
-                    forward_min: volts(lo),
-                    forward_max: volts(hi),
-                    current: amps(current),
-                    max_current,
-                    resistor,
-                })
-            }
-            RawLoad::Strip {
-                rated_v,
-                current_per_m_a,
-                length_m,
-            } => Load::Strip(Strip {
-                rated: volts(within(*rated_v, VOLTS, &key("rated_v"))?),
-                current_per_metre: amps(within(*current_per_m_a, AMPS, &key("current_per_m_a"))?),
-                length_m: within(*length_m, METRES, &key("length_m"))?,
-            }),
-        })
-    }
-
-    fn clamp(&mut self, load: &Load) -> Result<Clamp> {
-        let Some((raw, at)) = self.pick("clamp", |r| r.clamp.clone()) else {
-            return Ok(Clamp::None);
-        };
-        let kind = match &raw {
-            RawClamp::None => "none",
-            RawClamp::Diode { .. } => "diode",
-            RawClamp::Zener { .. } => "zener",
-        };
-        let key = |k: &str| -> String { sub_place(&at, k, self.origin, "clamp", kind) };
-        let opt_v = |v: &Option<f64>, k: &str| -> Result<Option<f64>> {
-            let span = if k.ends_with("_a") { AMPS } else { VOLTS };
-            match v {
-                Some(x) => Ok(Some(within(*x, span, &key(k))?)),
-                None => Ok(None),
-            }
-        };
-        let clamp = match &raw {
-            RawClamp::None => Clamp::None,
-            RawClamp::Diode {
-                forward_v,
-                reverse_v,
-                current_a,
-            } => Clamp::Diode {
-                forward: volts(self.clamp_forward(opt_v(forward_v, "forward_v")?)),
-                reverse: opt_v(reverse_v, "reverse_v")?.map(volts),
-                current: opt_v(current_a, "current_a")?.map(amps),
-            },
-            RawClamp::Zener {
-                zener_v,
-                forward_v,
-                reverse_v,
-                current_a,
-            } => Clamp::Zener {
-                zener: volts(within(*zener_v, VOLTS, &key("zener_v"))?),
-                forward: volts(self.clamp_forward(opt_v(forward_v, "forward_v")?)),
-                reverse: opt_v(reverse_v, "reverse_v")?.map(volts),
-                current: opt_v(current_a, "current_a")?.map(amps),
-            },
-        };
-        if !load.is_inductive() && !matches!(clamp, Clamp::None) {
-            self.assume(format!(
-                "the {} clamp is not used: a {} load does not kick back at turn-off",
-                clamp.kind_name(),
-                load.kind_name()
-            ));
-            return Ok(Clamp::None);
-        }
-        Ok(clamp)
-    }
-
-    fn clamp_forward(&mut self, given: Option<f64>) -> f64 {
-        given.unwrap_or_else(|| {
-            self.assume(format!(
-                "clamp diode forward drop {} assumed [memory]",
-                fe(DEFAULT_CLAMP_FORWARD_V, "V")
-            ));
-            DEFAULT_CLAMP_FORWARD_V
-        })
     }
 }

@@ -1,14 +1,15 @@
 //! The library of parts: the shipped files (embedded at build time) overlaid by the user's files
-//! and folders (`--parts`, `PINLOW_PARTS`), later sources overriding earlier ones by id.
+//! and folders (`--parts`, `PINLOW_PARTS`), later sources overriding earlier ones by id. Ids match
+//! without regard to case.
 
 use std::collections::BTreeMap;
 use std::path::{Path, PathBuf};
 use std::sync::Arc;
 
-use super::part::Part;
-use super::record::PartRecord;
-use super::validate::part_from_record;
-use crate::error::{parse_json, Error, Result};
+use serde_json::Value;
+
+use crate::drive::{self, SharedSwitch};
+use crate::error::{parse_value_text, Error, Place, Result};
 use crate::read::{read_text, PART_FILE_LIMIT};
 
 /// Where a part came from.
@@ -54,10 +55,76 @@ pub fn builtin_sources() -> impl Iterator<Item = &'static str> {
     BUILTIN.iter().map(|(name, _)| *name)
 }
 
-/// Parts by id.
+/// Read one part file's text (`file` names it in errors): its `polarity` picks the drive kind
+/// that reads the rest.
+pub fn read_part(file: &str, text: &str, source: PartSource) -> Result<SharedSwitch> {
+    let value = parse_value_text(file, text)?;
+    let text = crate::error::strip_bom(text);
+    parse_part_value(file, &value, source).map_err(|e| e.with_position(file, text))
+}
+
+fn parse_part_value(file: &str, value: &Value, source: PartSource) -> Result<SharedSwitch> {
+    let Value::Object(map) = value else {
+        return Err(Error::Json {
+            place: Place::json(file, ""),
+            message: format!(
+                "a part file holds one object of part figures, not {}",
+                crate::fields::json_type(value)
+            ),
+        });
+    };
+    let polarity = match map.get("polarity") {
+        Some(Value::String(p)) => p.as_str(),
+        Some(other) => {
+            return Err(Error::Json {
+                place: Place::json(file, "polarity"),
+                message: format!(
+                    "polarity takes a string naming the drive kind ({}); got {}",
+                    drive::kind_names(),
+                    crate::fields::json_type(other)
+                ),
+            })
+        }
+        None => {
+            return Err(Error::invalid(
+                Place::json(file, ""),
+                format!("missing `polarity` (the drive kind: {})", drive::kind_names()),
+            ))
+        }
+    };
+    let Some(kind) = drive::kind(polarity) else {
+        return Err(Error::invalid(
+            Place::json(file, "polarity"),
+            format!(
+                "`{polarity}` is not modelled: the drive kinds are {}",
+                drive::kind_names()
+            ),
+        ));
+    };
+    for key in map.keys() {
+        if let Some(other) = drive::KINDS
+            .iter()
+            .find(|k| k.name != kind.name && k.part_keys.contains(&key.as_str()) && !kind.part_keys.contains(&key.as_str()))
+        {
+            return Err(Error::Json {
+                place: Place::json(file, key.clone()),
+                message: format!(
+                    "`{key}` belongs to {} parts; a {} part gives {}",
+                    other.name,
+                    kind.name,
+                    kind.part_keys.join(", ")
+                ),
+            });
+        }
+    }
+    crate::shape::no_nulls(value, file, "", &[])?;
+    (kind.parse_part)(value, file, source)
+}
+
+/// Parts by id (matched without regard to case).
 #[derive(Clone, Debug, Default)]
 pub struct Library {
-    parts: BTreeMap<String, Arc<Part>>,
+    parts: BTreeMap<String, SharedSwitch>,
 }
 
 impl Library {
@@ -67,16 +134,16 @@ impl Library {
         let mut seen: BTreeMap<String, String> = BTreeMap::new();
         for (name, text) in BUILTIN {
             let label = format!("parts/{name}");
-            let rec: PartRecord = parse_json(&label, text)?;
-            let part = part_from_record(&rec, &label, PartSource::Builtin(name))?;
-            if let Some(first) = seen.insert(part.id.clone(), label.clone()) {
+            let part = read_part(&label, text, PartSource::Builtin(name))?;
+            let id = part.info().id.clone();
+            if let Some(first) = seen.insert(id.to_lowercase(), label.clone()) {
                 return Err(Error::DuplicatePart {
-                    id: part.id,
+                    id,
                     first,
                     second: label,
                 });
             }
-            lib.parts.insert(part.id.clone(), Arc::new(part));
+            lib.insert(part);
         }
         Ok(lib)
     }
@@ -87,34 +154,56 @@ impl Library {
         let mut lib = Library::builtin()?;
         for path in paths {
             for part in load_path(path)? {
-                lib.parts.insert(part.id.clone(), Arc::new(part));
+                lib.insert(part);
             }
         }
         Ok(lib)
     }
 
-    /// Add or replace a part (by id).
-    pub fn insert(&mut self, part: Part) {
-        self.parts.insert(part.id.clone(), Arc::new(part));
+    /// Add or replace a part (by id, any case).
+    pub fn insert(&mut self, part: SharedSwitch) {
+        self.parts.insert(part.info().id.to_lowercase(), part);
     }
 
-    /// The part with this id.
-    pub fn get(&self, id: &str) -> Option<&Part> {
-        self.parts.get(id).map(|p| p.as_ref())
+    /// The part with this id (any case).
+    pub fn get(&self, id: &str) -> Option<&SharedSwitch> {
+        self.parts.get(&id.to_lowercase())
     }
 
-    /// Look a part up as a shared handle (stages share their part), or say which ids exist.
-    pub fn require(&self, id: &str, place: &str) -> Result<&Arc<Part>> {
-        self.parts.get(id).ok_or_else(|| Error::UnknownPart {
-            place: place.to_string(),
+    /// The part with this id, or an error at `place` that names the nearest ids.
+    pub fn require(&self, id: &str, place: impl Into<Place>) -> Result<&SharedSwitch> {
+        self.get(id).ok_or_else(|| Error::UnknownPart {
+            place: place.into(),
             id: id.to_string(),
-            known: self.parts.keys().cloned().collect::<Vec<_>>().join(", "),
+            hint: self.hint(id),
         })
     }
 
+    /// "did you mean ...", or every known id.
+    fn hint(&self, id: &str) -> String {
+        let wanted = id.to_lowercase();
+        let mut near: Vec<(usize, &str)> = self
+            .parts
+            .iter()
+            .map(|(key, p)| (edit_distance(&wanted, key), p.info().id.as_str()))
+            .filter(|(d, _)| *d <= 3.max(wanted.chars().count() / 3))
+            .collect();
+        near.sort();
+        if near.is_empty() {
+            let all: Vec<&str> = self.iter().map(|p| p.info().id.as_str()).collect();
+            format!("known parts: {}", all.join(", "))
+        } else {
+            let names: Vec<&str> = near.iter().take(5).map(|(_, n)| *n).collect();
+            format!(
+                "did you mean {}? (`pinlow parts list` shows every part)",
+                names.join(", ")
+            )
+        }
+    }
+
     /// Every part, by id.
-    pub fn iter(&self) -> impl Iterator<Item = &Part> {
-        self.parts.values().map(|p| p.as_ref())
+    pub fn iter(&self) -> impl Iterator<Item = &SharedSwitch> {
+        self.parts.values()
     }
 
     /// Number of parts.
@@ -128,8 +217,30 @@ impl Library {
     }
 }
 
+/// Levenshtein distance of two short strings, by characters.
+fn edit_distance(a: &str, b: &str) -> usize {
+    let b: Vec<char> = b.chars().collect();
+    let mut row: Vec<usize> = (0..=b.len()).collect();
+    for (i, ca) in a.chars().enumerate() {
+        let mut prev = row.first().copied().unwrap_or(0);
+        if let Some(first) = row.first_mut() {
+            *first = i + 1;
+        }
+        for (j, cb) in b.iter().enumerate() {
+            let above = row.get(j + 1).copied().unwrap_or(usize::MAX);
+            let left = row.get(j).copied().unwrap_or(usize::MAX);
+            let diagonal = prev + usize::from(ca != *cb);
+            prev = above;
+            if let Some(cell) = row.get_mut(j + 1) {
+                *cell = diagonal.min(above + 1).min(left + 1);
+            }
+        }
+    }
+    row.last().copied().unwrap_or(0)
+}
+
 /// Load every part of a folder (sorted by file name) or one file.
-fn load_path(path: &Path) -> Result<Vec<Part>> {
+fn load_path(path: &Path) -> Result<Vec<SharedSwitch>> {
     let meta = std::fs::metadata(path).map_err(|source| Error::Io {
         path: path.to_path_buf(),
         source,
@@ -157,9 +268,10 @@ fn load_path(path: &Path) -> Result<Vec<Part>> {
     let mut parts = Vec::new();
     for file in files {
         let part = check_file(&file)?;
-        if let Some(first) = seen.insert(part.id.clone(), file.clone()) {
+        let id = part.info().id.clone();
+        if let Some(first) = seen.insert(id.to_lowercase(), file.clone()) {
             return Err(Error::DuplicatePart {
-                id: part.id,
+                id,
                 first: first.display().to_string(),
                 second: file.display().to_string(),
             });
@@ -170,12 +282,40 @@ fn load_path(path: &Path) -> Result<Vec<Part>> {
 }
 
 /// Read and validate one part file.
-pub fn check_file(path: &Path) -> Result<Part> {
+pub fn check_file(path: &Path) -> Result<SharedSwitch> {
     let text = read_text(path, PART_FILE_LIMIT)?;
     let label = path.display().to_string();
-    let rec: PartRecord = parse_json(&label, &text)?;
-    part_from_record(&rec, &label, PartSource::File(path.to_path_buf()))
-        .map_err(|e| e.with_position(&label, &text))
+    read_part(&label, &text, PartSource::File(path.to_path_buf()))
+}
+
+/// Read and validate part files, each on its own; also refuse two files that define one id.
+/// Returns the parts read, and every problem found.
+pub fn check_files(paths: &[PathBuf]) -> (Vec<(PathBuf, SharedSwitch)>, Vec<Error>) {
+    let mut parts: Vec<(PathBuf, SharedSwitch)> = Vec::new();
+    let mut errors = Vec::new();
+    for p in paths {
+        match check_file(p) {
+            Ok(part) => {
+                let id = part.info().id.to_lowercase();
+                if let Some((first, _)) = parts.iter().find(|(_, q)| q.info().id.to_lowercase() == id) {
+                    errors.push(Error::DuplicatePart {
+                        id: part.info().id.clone(),
+                        first: first.display().to_string(),
+                        second: p.display().to_string(),
+                    });
+                } else {
+                    parts.push((p.clone(), part));
+                }
+            }
+            Err(e) => errors.push(e),
+        }
+    }
+    (parts, errors)
+}
+
+/// Shared by tests of the drive kinds: a shipped part.
+pub fn shipped(id: &str) -> Option<SharedSwitch> {
+    Library::builtin().ok()?.get(id).map(Arc::clone)
 }
 
 #[cfg(test)]
@@ -205,16 +345,18 @@ mod tests {
             assert!(lib.get(id).is_some(), "{id} missing");
         }
         for part in lib.iter() {
-            assert!(!part.provenance.is_empty());
+            assert!(!part.info().provenance.is_empty());
         }
     }
 
     #[test]
-    fn unknown_part_lists_known_ids() {
+    fn ids_match_in_any_case_and_unknown_ones_get_the_nearest() {
         let lib = Library::builtin().expect("shipped parts are valid");
-        let err = lib.require("nope", "--part").expect_err("unknown");
-        let text = err.to_string();
-        assert!(text.contains("unknown part `nope`"), "{text}");
-        assert!(text.contains("demo-npn-40v"), "{text}");
+        assert!(lib.get("2n3904").is_some() && lib.get("tip120").is_some());
+        let err = lib.require("2N3094", "--part").expect_err("unknown").to_string();
+        assert!(err.contains("unknown part `2N3094`; did you mean 2N3904"), "{err}");
+        let err = lib.require("zzzzzzzzzzzz", "--part").expect_err("unknown").to_string();
+        assert!(err.contains("known parts:") && err.contains("demo-npn-40v"), "{err}");
+        assert_eq!(edit_distance("kitten", "sitting"), 3);
     }
 }

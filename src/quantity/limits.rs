@@ -91,6 +91,22 @@ pub fn show_number(v: f64) -> String {
 }
 
 impl Span {
+    /// Why `v` is not accepted (without the number itself), or `None` when it is: it must be
+    /// finite, positive and inside the span.
+    pub fn reason(&self, v: f64) -> Option<String> {
+        if !(v.is_finite() && v > 0.0) {
+            return Some("a positive finite number is needed".to_string());
+        }
+        if v < self.min || v > self.max {
+            return Some(format!(
+                "pinlow accepts {} to {}",
+                self.show(self.min),
+                self.show(self.max)
+            ));
+        }
+        None
+    }
+
     /// `v` when it is finite, positive and inside the span; otherwise why not, in words.
     pub fn check(&self, v: f64) -> Result<f64, String> {
         if !(v.is_finite() && v > 0.0) {

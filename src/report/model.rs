@@ -1,83 +1,24 @@
-//! The report value: plain numbers in base SI units with the unit in each key (files.md). Built
-//! once from the engine's typed results; every renderer reads it.
+//! The report value: plain numbers in base SI units with the unit in each key (files.md), built
+//! once per stage by `pipeline`; every renderer reads it and none computes.
 
+use serde::ser::{SerializeMap, Serializer};
 use serde::Serialize;
+use serde_json::{Map, Value};
 
-use crate::analysis::fixes::Fix;
 use crate::analysis::yield_mc::YieldResult;
-use crate::analysis::{Finding, RatingSource, Role, StageAnalysis, Status};
-use crate::quantity::{format_rkm, Base};
-use crate::stage::Stage;
+use crate::check::{CheckId, Status};
+use crate::picture::Picture;
+use crate::remedy::PartNeed;
 
 /// Version of the stage model the figures follow.
-pub const MODEL_VERSION: u32 = 1;
+pub const MODEL_VERSION: u32 = 2;
 
 /// The caution every report carries.
 pub const GENERAL_CAUTION: &str = "pinlow checks the driver stage against its model only and does not replace a design review; follow local codes and licensed practice, above all where anything touches mains";
 
-/// A whole report held in memory: one board (or one stage from flags). Renderers draw it through
-/// [`super::stream`], which adds the verdict line, the assumptions and the cautions.
-#[derive(Clone, Debug)]
-pub struct Report {
-    /// Worst stage verdict.
-    pub verdict: Status,
-    /// Every stage, in input order.
-    pub stages: Vec<StageReport>,
-    /// The board's name, when given.
-    pub board: Option<String>,
-}
-
-/// One stage's results.
-#[derive(Clone, Debug, Serialize)]
-pub struct StageReport {
-    /// Position in the board, from 1.
-    pub index: usize,
-    /// Name.
-    pub name: String,
-    /// Worst check.
-    pub verdict: Status,
-    /// Part id.
-    pub part: String,
-    /// `current`, `relay`, `led` or `strip`.
-    pub load_kind: &'static str,
-    /// RB.
-    pub base_resistor_ohms: f64,
-    /// RB was sized.
-    pub base_resistor_sized: bool,
-    /// RBE, if any.
-    pub pull_down_ohms: Option<f64>,
-    /// RBE was sized.
-    pub pull_down_sized: bool,
-    /// RL, for LED loads that have one.
-    pub led_resistor_ohms: Option<f64>,
-    /// RL was sized.
-    pub led_resistor_sized: bool,
-    /// The conditions the stage was judged under.
-    pub conditions: Conditions,
-    /// Each resistor with its power and rating.
-    pub resistors: Vec<ResistorReport>,
-    /// What the clamp of an inductive load needs, and what is fitted.
-    pub clamp: Option<ClampReport>,
-    /// Worst-case figures.
-    pub worst_case: WorstCaseReport,
-    /// One entry per check.
-    pub checks: Vec<Finding>,
-    /// Defaults taken.
-    pub assumptions: Vec<String>,
-    /// Cautions that apply.
-    pub cautions: Vec<String>,
-    /// Remedies for every check that is not a pass, each re-checked.
-    pub fixes: Vec<Fix>,
-    /// The SVG drawn for this stage (`--plots DIR`), when one was.
-    pub plot_svg: Option<String>,
-    /// Monte Carlo yield (`--yield N`), when asked for.
-    #[serde(rename = "yield", skip_serializing_if = "Option::is_none")]
-    pub yield_mc: Option<YieldResult>,
-}
-
 /// The inputs that shape the corners.
-#[derive(Clone, Debug, Serialize)]
-pub struct Conditions {
+#[derive(Clone, Debug, Serialize, PartialEq)]
+pub struct ConditionsReport {
     /// Nominal supply.
     pub supply_v: f64,
     /// Supply tolerance.
@@ -90,8 +31,9 @@ pub struct Conditions {
     pub pin_limit_a: f64,
     /// Ambient [min, max].
     pub ambient_c: [f64; 2],
-    /// Wanted overdrive.
-    pub overdrive: f64,
+    /// Wanted overdrive (npn stages).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub overdrive: Option<f64>,
     /// Resistor tolerance.
     pub resistor_tolerance: f64,
     /// Series used for sizing.
@@ -99,10 +41,12 @@ pub struct Conditions {
 }
 
 /// A resistor of the stage.
-#[derive(Clone, Debug, Serialize)]
+#[derive(Clone, Debug, Serialize, PartialEq)]
 pub struct ResistorReport {
-    /// `base`, `pull-down` or `led`.
-    pub role: Role,
+    /// `base`, `gate`, `pull-down` or `led`.
+    pub role: &'static str,
+    /// `RB`, `RG`, `RBE`, `RGS`, `RL`.
+    pub symbol: &'static str,
     /// Value.
     pub ohms: f64,
     /// IEC 60062 RKM code.
@@ -113,68 +57,287 @@ pub struct ResistorReport {
     pub worst_power_w: f64,
     /// The rating it is held to.
     pub rating_w: f64,
-    /// `given`, `assumed` or `proposed`.
-    pub rating_source: RatingSource,
-    /// Smallest standard rating at least twice the worst power (null above 5 W).
+    /// `given`, `assumed` (the fitted rating) or `proposed` (the rating sized for it).
+    pub rating_source: crate::analysis::RatingSource,
+    /// The smallest standard rating at least twice the worst power (null above 5 W).
     pub recommended_rating_w: Option<f64>,
 }
 
 /// The clamp: what is fitted and what it needs.
-#[derive(Clone, Debug, Serialize)]
+#[derive(Clone, Debug, Serialize, PartialEq)]
 pub struct ClampReport {
     /// `none`, `diode` or `zener`.
     pub fitted: &'static str,
     /// Clamp voltage above the supply, when fitted.
     pub clamp_v: Option<f64>,
-    /// Reverse rating needed.
+    /// Least reverse rating a clamp needs.
     pub reverse_min_v: f64,
-    /// Current rating needed.
+    /// Least current rating a clamp needs.
     pub current_min_a: f64,
-    /// Energy in the coil at IC,max.
+    /// Energy in the winding at IC,max.
     pub stored_energy_j: Option<f64>,
-    /// L/R with the lowest coil resistance.
+    /// L/R with the lowest winding resistance.
     pub decay_time_constant_s: Option<f64>,
 }
 
-/// Worst-case figures (stage-model 4).
-#[derive(Clone, Debug, Serialize)]
-pub struct WorstCaseReport {
-    /// IC,max.
-    pub collector_current_max_a: f64,
-    /// IB,min at Ta,min.
-    pub base_current_min_a: f64,
-    /// hFE,min at IC,max and Ta,min.
-    pub gain_min: f64,
-    /// Worst-case overdrive (null when the load draws nothing).
-    pub overdrive_min: Option<f64>,
-    /// IC,max / IB,min (null when no base current flows).
-    pub forced_beta_max: Option<f64>,
-    /// Largest pin current.
-    pub pin_current_max_a: f64,
-    /// Largest transistor dissipation.
-    pub power_max_w: f64,
-    /// Highest junction temperature.
-    pub junction_max_c: f64,
-    /// Highest collector voltage (null: an inductive load with no clamp, unbounded).
-    pub collector_peak_v: Option<f64>,
-    /// Highest supply.
-    pub supply_max_v: f64,
-    /// Lowest supply.
-    pub supply_min_v: f64,
-    /// VBE(sat),max at the cold corner.
-    pub vbe_sat_max_v: f64,
-    /// VBE(sat),min at the hot corner.
-    pub vbe_sat_min_v: f64,
-    /// VCE(sat),max at IC,max.
-    pub vce_sat_max_v: f64,
-    /// Leakage voltage across the pull-down, hot.
-    pub leakage_voltage_v: Option<f64>,
-    /// Turn-on edge, hot.
-    pub turn_on_edge_v: f64,
-    /// Lowest LED current.
-    pub led_current_min_a: Option<f64>,
-    /// Highest LED current.
-    pub led_current_max_a: Option<f64>,
+/// A worst-case figure.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct FigureReport {
+    /// JSON key.
+    pub key: &'static str,
+    /// Value (six significant digits).
+    pub value: Option<f64>,
+    /// Table header, when tables show it.
+    pub header: Option<&'static str>,
+    /// Display scale.
+    pub scale: f64,
+}
+
+/// One check's outcome.
+#[derive(Clone, Debug, Serialize, PartialEq)]
+pub struct CheckReport {
+    /// Check id.
+    pub id: CheckId,
+    /// Status.
+    pub status: Status,
+    /// Figure checked.
+    pub value: Option<f64>,
+    /// The limit it is held to (the pass threshold).
+    pub limit: Option<f64>,
+    /// Unit of value and limit.
+    pub unit: &'static str,
+    /// One sentence: why.
+    pub detail: String,
+}
+
+/// One check's remedy within the stage's composed remedy.
+#[derive(Clone, Debug, Serialize, PartialEq)]
+pub struct FixReport {
+    /// The check it answers.
+    pub check: CheckId,
+    /// What to do.
+    pub action: String,
+    /// The board fields this remedy sets (empty: another part or circuit).
+    pub apply: Map<String, Value>,
+    /// Status of the check after the whole composed change (`null`: nothing to re-check).
+    pub recheck: Option<Status>,
+    /// Figures a replacement part needs.
+    pub needs: Vec<PartNeed>,
+}
+
+/// A board field the remedy changes.
+#[derive(Clone, Debug, Serialize, PartialEq)]
+pub struct ChangeReport {
+    /// The field.
+    pub field: String,
+    /// Before (`null`: absent).
+    pub from: Option<Value>,
+    /// After.
+    pub to: Value,
+}
+
+/// A check and its status.
+#[derive(Clone, Debug, Serialize, PartialEq)]
+pub struct Short {
+    /// The check.
+    pub check: CheckId,
+    /// Its status.
+    pub status: Status,
+}
+
+/// A check that got worse.
+#[derive(Clone, Debug, Serialize, PartialEq)]
+pub struct Worsened {
+    /// The check.
+    pub check: CheckId,
+    /// Before.
+    pub from: Status,
+    /// After.
+    pub to: Status,
+}
+
+/// A part figure a check still needs.
+#[derive(Clone, Debug, Serialize, PartialEq)]
+pub struct NeedReport {
+    /// For which check.
+    pub check: CheckId,
+    /// The figure.
+    #[serde(flatten)]
+    pub need: PartNeed,
+    /// In words.
+    pub text: String,
+}
+
+/// The stage's composed remedy.
+#[derive(Clone, Debug, Serialize, PartialEq)]
+pub struct RemedyReport {
+    /// Every board field to set, as `pinlow fix` writes them.
+    pub apply: Map<String, Value>,
+    /// The same, with the values before.
+    pub changes: Vec<ChangeReport>,
+    /// The stage's verdict after the change (`null`: no board field can help).
+    pub verdict_after: Option<Status>,
+    /// Checks still not a pass after the change.
+    pub still_short: Vec<Short>,
+    /// Checks that got worse.
+    pub worsened: Vec<Worsened>,
+    /// What a part would need for the checks still short.
+    pub needs: Vec<NeedReport>,
+}
+
+/// The yield of a stage, or why it has none.
+#[derive(Clone, Debug, PartialEq)]
+pub enum YieldReport {
+    /// The Monte Carlo figures.
+    Modelled(YieldResult),
+    /// The drive kind has no yield model yet.
+    NotModelled {
+        /// The drive kind.
+        drive: &'static str,
+    },
+}
+
+impl Serialize for YieldReport {
+    fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        match self {
+            YieldReport::Modelled(y) => y.serialize(s),
+            YieldReport::NotModelled { drive } => {
+                let mut m = s.serialize_map(Some(2))?;
+                m.serialize_entry("modelled", &false)?;
+                m.serialize_entry(
+                    "reason",
+                    &format!("the yield is not modelled for {drive} stages yet"),
+                )?;
+                m.end()
+            }
+        }
+    }
+}
+
+/// One stage's results.
+#[derive(Clone, Debug, PartialEq)]
+pub struct StageReport {
+    /// Position in the board, from 1.
+    pub index: usize,
+    /// Name.
+    pub name: String,
+    /// Worst check.
+    pub verdict: Status,
+    /// `npn` or `nmos`.
+    pub drive: &'static str,
+    /// Part id.
+    pub part: String,
+    /// The load kind.
+    pub load_kind: &'static str,
+    /// JSON keys of the series resistor and its sized flag (`base_resistor_ohms`, ...).
+    pub series_keys: (&'static str, &'static str),
+    /// The series resistor's symbol (`RB`, `RG`).
+    pub series_symbol: &'static str,
+    /// Its value.
+    pub series_ohms: f64,
+    /// It was sized.
+    pub series_sized: bool,
+    /// The pull-down, if any.
+    pub pull_down_ohms: Option<f64>,
+    /// It was sized.
+    pub pull_down_sized: bool,
+    /// RL, for LED loads that have one.
+    pub led_resistor_ohms: Option<f64>,
+    /// RL was sized.
+    pub led_resistor_sized: bool,
+    /// The conditions the stage was judged under.
+    pub conditions: ConditionsReport,
+    /// Each resistor with its power and rating.
+    pub resistors: Vec<ResistorReport>,
+    /// What the clamp of an inductive load needs, and what is fitted.
+    pub clamp: Option<ClampReport>,
+    /// Worst-case figures, in report order.
+    pub worst_case: Vec<FigureReport>,
+    /// The figure that says how hard the switch is driven: (key, summary header).
+    pub margin: (&'static str, &'static str),
+    /// One entry per check.
+    pub checks: Vec<CheckReport>,
+    /// Defaults taken.
+    pub assumptions: Vec<String>,
+    /// Cautions that apply.
+    pub cautions: Vec<String>,
+    /// One entry per check that is not a pass.
+    pub fixes: Vec<FixReport>,
+    /// The composed remedy, when a check is not a pass.
+    pub remedy: Option<RemedyReport>,
+    /// The SVG drawn for this stage (`--plots DIR`), when one was.
+    pub plot_svg: Option<String>,
+    /// Why no picture was drawn, when one was asked for and none could be.
+    pub plot_note: Option<String>,
+    /// Monte Carlo yield (`--yield N`), when asked for.
+    pub yield_mc: Option<YieldReport>,
+    /// The picture's data, when one was asked for (not serialized).
+    pub picture: Option<Picture>,
+}
+
+impl StageReport {
+    /// A worst-case figure by key.
+    pub fn figure(&self, key: &str) -> Option<f64> {
+        self.worst_case.iter().find(|f| f.key == key).and_then(|f| f.value)
+    }
+
+    /// The worst check: the highest status, the first in report order among equals.
+    pub fn worst_finding(&self) -> Option<&CheckReport> {
+        self.checks
+            .iter()
+            .filter(|c| c.status != Status::Pass)
+            .fold(None, |best: Option<&CheckReport>, c| match best {
+                Some(b) if b.status >= c.status => Some(b),
+                _ => Some(c),
+            })
+    }
+}
+
+struct Figures<'a>(&'a [FigureReport]);
+
+impl Serialize for Figures<'_> {
+    fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        let mut m = s.serialize_map(Some(self.0.len()))?;
+        for f in self.0 {
+            m.serialize_entry(f.key, &f.value)?;
+        }
+        m.end()
+    }
+}
+
+impl Serialize for StageReport {
+    fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        let mut m = s.serialize_map(None)?;
+        m.serialize_entry("index", &self.index)?;
+        m.serialize_entry("name", &self.name)?;
+        m.serialize_entry("verdict", &self.verdict)?;
+        m.serialize_entry("drive", self.drive)?;
+        m.serialize_entry("part", &self.part)?;
+        m.serialize_entry("load_kind", self.load_kind)?;
+        m.serialize_entry(self.series_keys.0, &self.series_ohms)?;
+        m.serialize_entry(self.series_keys.1, &self.series_sized)?;
+        m.serialize_entry("pull_down_ohms", &self.pull_down_ohms)?;
+        m.serialize_entry("pull_down_sized", &self.pull_down_sized)?;
+        m.serialize_entry("led_resistor_ohms", &self.led_resistor_ohms)?;
+        m.serialize_entry("led_resistor_sized", &self.led_resistor_sized)?;
+        m.serialize_entry("conditions", &self.conditions)?;
+        m.serialize_entry("resistors", &self.resistors)?;
+        m.serialize_entry("clamp", &self.clamp)?;
+        m.serialize_entry("worst_case", &Figures(&self.worst_case))?;
+        m.serialize_entry("checks", &self.checks)?;
+        m.serialize_entry("assumptions", &self.assumptions)?;
+        m.serialize_entry("cautions", &self.cautions)?;
+        m.serialize_entry("fixes", &self.fixes)?;
+        m.serialize_entry("remedy", &self.remedy)?;
+        m.serialize_entry("plot_svg", &self.plot_svg)?;
+        if let Some(note) = &self.plot_note {
+            m.serialize_entry("plot_note", note)?;
+        }
+        if let Some(y) = &self.yield_mc {
+            m.serialize_entry("yield", y)?;
+        }
+        m.end()
+    }
 }
 
 /// Round to six significant digits so reports read cleanly; non-finite becomes `None`.
@@ -191,134 +354,7 @@ pub fn sig(x: f64) -> Option<f64> {
     Some(if r.is_finite() { r } else { x })
 }
 
-fn num(x: f64) -> f64 {
+/// [`sig`], keeping a non-finite value as it is.
+pub fn num(x: f64) -> f64 {
     sig(x).unwrap_or(x)
-}
-
-impl StageReport {
-    /// Build the report of one analysed stage.
-    pub fn from_analysis(stage: &Stage, a: &StageAnalysis) -> StageReport {
-        let wc = &a.worst;
-        let load = &wc.load;
-        let clamp = a.clamp.map(|c| ClampReport {
-            fitted: stage.clamp.kind_name(),
-            clamp_v: stage.clamp.voltage().map(|v| num(v.base())),
-            reverse_min_v: num(c.reverse_min.base()),
-            current_min_a: num(c.current_min.base()),
-            stored_energy_j: c.stored_energy.map(|e| num(e.base())),
-            decay_time_constant_s: c.decay_time_constant.map(|t| num(t.base())),
-        });
-        let checks = a
-            .findings
-            .iter()
-            .map(|f| Finding {
-                value: f.value.and_then(sig),
-                limit: f.limit.and_then(sig),
-                ..f.clone()
-            })
-            .collect();
-        StageReport {
-            index: 0,
-            name: stage.name.clone(),
-            verdict: a.verdict,
-            part: stage.part.id.clone(),
-            load_kind: stage.load.kind_name(),
-            base_resistor_ohms: num(wc.resistors.rb.base()),
-            base_resistor_sized: a.sized.base,
-            pull_down_ohms: wc.resistors.rbe.map(|r| num(r.base())),
-            pull_down_sized: a.sized.pull_down,
-            led_resistor_ohms: wc.resistors.rl.map(|r| num(r.base())),
-            led_resistor_sized: a.sized.led,
-            conditions: Conditions {
-                supply_v: num(stage.supply.base()),
-                supply_tolerance: stage.supply_tolerance,
-                logic_high_v: num(stage.logic_high.base()),
-                logic_high_min_v: num(stage.logic_high_min.base()),
-                pin_limit_a: num(stage.pin_limit.base()),
-                ambient_c: [num(stage.ambient_min.base()), num(stage.ambient_max.base())],
-                overdrive: stage.overdrive,
-                resistor_tolerance: stage.resistor_tolerance,
-                series: stage.series.to_string(),
-            },
-            resistors: a
-                .resistors
-                .iter()
-                .map(|r| ResistorReport {
-                    role: r.role,
-                    ohms: num(r.value.base()),
-                    code: format_rkm(r.value.base()),
-                    sized: r.sized,
-                    worst_power_w: num(r.worst_power.base()),
-                    rating_w: num(r.rating.base()),
-                    rating_source: r.rating_source,
-                    recommended_rating_w: r.recommended_rating.map(|p| num(p.base())),
-                })
-                .collect(),
-            clamp,
-            worst_case: WorstCaseReport {
-                collector_current_max_a: num(load.ic_max.base()),
-                base_current_min_a: num(wc.base_current_min.base()),
-                gain_min: num(load.gain_min),
-                overdrive_min: sig(wc.overdrive_min),
-                forced_beta_max: wc.forced_beta_max.and_then(sig),
-                pin_current_max_a: num(wc.pin_current_max.base()),
-                power_max_w: num(wc.power_max.base()),
-                junction_max_c: num(wc.junction_max.base()),
-                collector_peak_v: wc.collector_peak.map(|v| num(v.base())),
-                supply_max_v: num(load.vcc_max.base()),
-                supply_min_v: num(load.vcc_min.base()),
-                vbe_sat_max_v: num(load.vbe_sat_max_cold.base()),
-                vbe_sat_min_v: num(load.vbe_sat_min_hot.base()),
-                vce_sat_max_v: num(load.vce_sat_max.base()),
-                leakage_voltage_v: wc.leakage_voltage.map(|v| num(v.base())),
-                turn_on_edge_v: num(wc.turn_on_edge_hot.base()),
-                led_current_min_a: wc.led.map(|l| num(l.min.base())),
-                led_current_max_a: wc.led.map(|l| num(l.max.base())),
-            },
-            checks,
-            assumptions: a.assumptions(stage),
-            cautions: a.cautions.clone(),
-            fixes: Vec::new(),
-            plot_svg: None,
-            yield_mc: None,
-        }
-    }
-
-    /// The first check that is not a pass, for summaries.
-    pub fn first_problem(&self) -> Option<&Finding> {
-        self.checks.iter().find(|f| f.status != Status::Pass)
-    }
-}
-
-impl Report {
-    /// Gather stage reports under one verdict.
-    pub fn new(board: Option<String>, mut stages: Vec<StageReport>) -> Report {
-        for (i, s) in stages.iter_mut().enumerate() {
-            s.index = i + 1;
-        }
-        let verdict = stages
-            .iter()
-            .map(|s| s.verdict)
-            .max()
-            .unwrap_or(Status::Pass);
-        Report {
-            verdict,
-            stages,
-            board,
-        }
-    }
-
-    /// The same report keeping only the stages that are not a pass (the verdict stays that of
-    /// the whole board).
-    pub fn only_problems(&self) -> Report {
-        Report {
-            stages: self
-                .stages
-                .iter()
-                .filter(|s| s.verdict != Status::Pass)
-                .cloned()
-                .collect(),
-            ..self.clone()
-        }
-    }
 }
