@@ -1,5 +1,8 @@
 //! The Markdown renderer: the same content as the table, for pasting into a design review.
+//! Every text passes through [`markdown_text`] or [`markdown_line`], so names render as literal
+//! text, never as HTML, links or formatting.
 
+use super::escape::{markdown_line, markdown_text as escape};
 use super::model::StageReport;
 use super::rows::{head_blocks, stage_blocks, tail_blocks, Block};
 use super::stream::{Head, Renderer, Tail};
@@ -8,8 +11,25 @@ use super::stream::{Head, Renderer, Tail};
 #[derive(Clone, Copy, Debug, Default)]
 pub struct MarkdownRenderer;
 
-fn escape(text: &str) -> String {
-    text.replace('|', "\\|").replace('\n', " ")
+/// A picture path as a link destination: `<`, `>`, spaces, parentheses, backslashes and
+/// anything unsafe percent-encoded, so the path can neither end the destination early nor
+/// carry a control character [std: CommonMark 0.31, 6.3 link destination; RFC 3986
+/// percent-encoding].
+fn destination(path: &str) -> String {
+    let mut out = String::with_capacity(path.len());
+    for c in path.chars() {
+        if c.is_ascii_alphanumeric() || "-._~/:".contains(c) {
+            out.push(c);
+        } else if c.is_ascii() || super::escape::is_unsafe_char(c) {
+            let mut buf = [0u8; 4];
+            for b in c.encode_utf8(&mut buf).bytes() {
+                out.push_str(&format!("%{b:02X}"));
+            }
+        } else {
+            out.push(c);
+        }
+    }
+    out
 }
 
 impl Renderer for MarkdownRenderer {
@@ -66,20 +86,16 @@ fn draw(blocks: Vec<Block>, mut out: String) -> String {
                 Block::List(title, items) => {
                     out.push_str(&format!("**{}**\n\n", escape(&title)));
                     for item in items {
-                        out.push_str(&format!("- {}\n", escape(&item)));
+                        out.push_str(&format!("- {}\n", markdown_line(&item)));
                     }
                     out.push('\n');
                 }
                 Block::Line(text) => {
-                    out.push_str(&escape(&text));
+                    out.push_str(&markdown_line(&text));
                     out.push_str("\n\n");
                 }
                 Block::Image(alt, path) => {
-                    out.push_str(&format!(
-                        "![{}]({})\n\n",
-                        escape(&alt),
-                        path.replace(' ', "%20")
-                    ));
+                    out.push_str(&format!("![{}]({})\n\n", escape(&alt), destination(&path)));
                 }
                 Block::Verdict(text, _) => {
                     out.push_str(&format!("**{}**\n\n", escape(&text)));
