@@ -71,6 +71,16 @@ pub fn terminal_text(text: &str) -> Cow<'_, str> {
 ///
 /// Text that starts a line (a paragraph, a list item) takes [`markdown_line`].
 pub fn markdown_text(text: &str) -> String {
+    markdown_inline(text, false)
+}
+
+/// [`markdown_text`] for the text of a link or image (`![TEXT](...)`), where an unbalanced
+/// bracket would end the text early: every `[` and `]` is escaped.
+pub fn markdown_link_text(text: &str) -> String {
+    markdown_inline(text, true)
+}
+
+fn markdown_inline(text: &str, all_brackets: bool) -> String {
     let mut out = String::with_capacity(text.len() + 8);
     let mut at = 0usize;
     let mut after_bracket = false;
@@ -82,6 +92,10 @@ pub fn markdown_text(text: &str) -> String {
             '<' => out.push_str("&lt;"),
             '&' => out.push_str("&amp;"),
             '\\' | '`' | '*' | '_' | '~' | '!' | '|' | '#' => {
+                out.push('\\');
+                out.push(c);
+            }
+            '[' | ']' if all_brackets => {
                 out.push('\\');
                 out.push(c);
             }
@@ -281,6 +295,7 @@ mod tests {
         assert_eq!(markdown_text("[x][r] [y]: z"), "[x]\\[r] [y]\\: z");
         assert_eq!(markdown_text("![i](y.png)"), "\\![i]\\(y.png)");
         assert_eq!(markdown_text("Tj max [°C]"), "Tj max [°C]");
+        assert_eq!(markdown_link_text("a [x][r] b]"), "a \\[x\\]\\[r\\] b\\]");
         assert_eq!(
             markdown_text("*a* _b_ `c` ~d~"),
             "\\*a\\* \\_b\\_ \\`c\\` \\~d\\~"
