@@ -15,6 +15,7 @@ use pinlow::report::{render, render_with_width, Format};
 use pinlow::stage::Stage;
 use proptest::prelude::*;
 use pulldown_cmark::{Event, Options, Parser, Tag, TagEnd};
+use unicode_width::UnicodeWidthStr;
 
 fn demo_stages() -> &'static [Stage] {
     static STAGES: OnceLock<Vec<Stage>> = OnceLock::new();
@@ -232,6 +233,12 @@ proptest! {
                 "table (colour {color}, width {width:?}): raw {:?} in {checked:?}",
                 first_forbidden(&checked)
             );
+            if let Some(w) = width.filter(|&w| w >= 60) {
+                // Wide enough for the widest table at one character a column: every line fits,
+                // whatever the names hold.
+                let over = checked.lines().find(|l| UnicodeWidthStr::width(*l) > w);
+                prop_assert!(over.is_none(), "line wider than {w}: {over:?}");
+            }
             if width.is_none() {
                 prop_assert!(text.contains(&shown(&name)), "table lacks the name {:?}", shown(&name));
                 prop_assert!(text.contains(&shown(&board)), "table lacks the board {:?}", shown(&board));
