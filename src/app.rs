@@ -10,7 +10,9 @@ use crate::board::{read_board, resolve_stage, Origin, RawStage};
 use crate::cli::{Cli, ColorArg, Command, FormatArg, PartsCommand, StageArgs, YieldArgs};
 use crate::error::{Error, Result};
 use crate::parts::{check_file, Library};
-use crate::report::{renderer, write_report, Format, StageReport, SummaryRow};
+use crate::report::{
+    output_width, renderer_with_width, write_report, Format, StageReport, SummaryRow,
+};
 use crate::stage::Stage;
 
 mod flags;
@@ -245,7 +247,8 @@ fn report(
         r.plot_svg = plots.as_ref().and_then(|p| p.get(i).cloned());
         r
     });
-    let mut renderer = renderer(format, color);
+    let width = cli.output.is_none().then(output_width).flatten();
+    let mut renderer = renderer_with_width(format, color, width);
     let show = |r: &StageReport| !only || r.verdict != Status::Pass;
     let tail = match &cli.output {
         Some(path) => {

@@ -16,6 +16,8 @@ use plotters_backend::{
     BackendColor, BackendCoord, BackendStyle, BackendTextStyle, DrawingErrorKind,
 };
 
+use crate::report::escape::xml_chars;
+
 /// The class in force and the classes recorded so far, shared between the plot and the backend.
 #[derive(Clone, Debug, Default)]
 pub(crate) struct Tags {
@@ -142,9 +144,12 @@ impl DrawingBackend for TaggedSvg<'_> {
         self.inner.fill_polygon(vert, style)
     }
 
+    /// plotters escapes `&`, `<`, `>` and quotes but passes every other character raw; control
+    /// characters (most of which XML forbids) and bidi controls are shown escaped first, so
+    /// every document is well-formed and shows what a name held.
     fn draw_text<T: BackendTextStyle>(&mut self, text: &str, style: &T, pos: BackendCoord) -> Res {
         self.tags.record(style.color());
-        self.inner.draw_text(text, style, pos)
+        self.inner.draw_text(&xml_chars(text), style, pos)
     }
 
     fn estimate_text_size<T: BackendTextStyle>(
@@ -152,7 +157,7 @@ impl DrawingBackend for TaggedSvg<'_> {
         text: &str,
         style: &T,
     ) -> Result<(u32, u32), DrawingErrorKind<Self::ErrorType>> {
-        self.inner.estimate_text_size(text, style)
+        self.inner.estimate_text_size(&xml_chars(text), style)
     }
 }
 

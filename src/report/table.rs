@@ -1,11 +1,17 @@
-//! The terminal table renderer (comfy-table). Colour only when asked for.
+//! The terminal table renderer (comfy-table). Colour only when asked for; every text is
+//! shown through [`terminal_text`], so no control character of a name reaches the terminal.
+//! Given a width, tables and long lines are fitted to it (lists with a hanging indent);
+//! without one every line is drawn whole.
 
 use comfy_table::presets::UTF8_FULL_CONDENSED;
-use comfy_table::{Cell as TableCell, Color, ContentArrangement, Table};
+use comfy_table::{Cell as TableCell, Color, ColumnConstraint, ContentArrangement, Table, Width};
 
+use super::escape::terminal_text;
+use super::layout::{column_widths, longest_word, PADDING};
 use super::model::StageReport;
 use super::rows::{head_blocks, stage_blocks, tail_blocks, Block, Cell};
 use super::stream::{Head, Renderer, Tail};
+use super::wrap::{display_width, wrap};
 use crate::analysis::Status;
 
 /// Renders a report as text tables.
@@ -13,9 +19,13 @@ use crate::analysis::Status;
 pub struct TableRenderer {
     /// Colour the status cells and verdicts.
     pub color: bool,
+    /// Fit tables and lines to this many columns; `None` draws every line whole (for pipes
+    /// and files).
+    pub width: Option<usize>,
 }
 
 impl TableRenderer {
+    /// A cell of text already made safe, coloured by its status when colour is on.
     fn paint(&self, text: &str, status: Option<Status>) -> TableCell {
         let cell = TableCell::new(text);
         match (self.color, status) {
@@ -46,57 +56,110 @@ fn color_of(s: Status) -> Color {
 }
 
 impl TableRenderer {
+    /// `text` shown safely and, with a width, wrapped: the first line starts with `first`,
+    /// the others with `rest`.
+    fn lines(&self, text: &str, first: &str, rest: &str) -> Vec<String> {
+        let text = terminal_text(text);
+        match self.width {
+            Some(width) => wrap(&text, width, first, rest),
+            None => vec![format!("{first}{text}")],
+        }
+    }
+
+    fn push_lines(&self, out: &mut String, text: &str, first: &str, rest: &str) {
+        for line in self.lines(text, first, rest) {
+            out.push_str(&line);
+            out.push('\n');
+        }
+    }
+
+    fn table(&self, headers: &[String], rows: &[Vec<Cell>]) -> String {
+        let mut t = Table::new();
+        t.load_preset(UTF8_FULL_CONDENSED);
+        // Never ask the real terminal: colour is what the caller chose.
+        t.force_no_tty();
+        if self.color {
+            t.enforce_styling();
+        }
+        let headers: Vec<_> = headers.iter().map(|h| terminal_text(h)).collect();
+        let rows: Vec<Vec<_>> = rows
+            .iter()
+            .map(|row| {
+                row.iter()
+                    .map(|Cell { text, status }| (terminal_text(text), *status))
+                    .collect()
+            })
+            .collect();
+        t.set_header(headers.iter().map(TableCell::new).collect::<Vec<_>>());
+        for row in &rows {
+            t.add_row(
+                row.iter()
+                    .map(|(text, status)| self.paint(text, *status))
+                    .collect::<Vec<_>>(),
+            );
+        }
+        let Some(width) = self.width else {
+            t.set_content_arrangement(ContentArrangement::Disabled);
+            return t.to_string();
+        };
+        let mut natural: Vec<usize> = headers.iter().map(|h| display_width(h)).collect();
+        let mut longest: Vec<usize> = headers.iter().map(|h| longest_word(h)).collect();
+        for row in &rows {
+            for ((n, l), (text, _)) in natural.iter_mut().zip(longest.iter_mut()).zip(row) {
+                *n = (*n).max(display_width(text));
+                *l = (*l).max(longest_word(text));
+            }
+        }
+        t.set_content_arrangement(ContentArrangement::Dynamic);
+        t.set_width(u16::try_from(width).unwrap_or(u16::MAX));
+        // After the rows: constraints apply to the columns the table has.
+        let fixed = column_widths(&natural, &longest, width)
+            .into_iter()
+            .map(|w| {
+                ColumnConstraint::Absolute(Width::Fixed(
+                    u16::try_from(w + PADDING).unwrap_or(u16::MAX),
+                ))
+            });
+        t.set_constraints(fixed);
+        t.to_string()
+    }
+
     fn draw(&self, blocks: Vec<Block>, mut out: String) -> String {
         for block in blocks {
             match block {
                 Block::Heading(level, text) => {
                     out.push('\n');
-                    out.push_str(&text);
-                    out.push('\n');
+                    let lines = self.lines(&text, "", "");
+                    let widest = lines.iter().map(|l| display_width(l)).max().unwrap_or(0);
+                    for line in lines {
+                        out.push_str(&line);
+                        out.push('\n');
+                    }
                     let rule = if level == 1 { '=' } else { '-' };
-                    out.push_str(&rule.to_string().repeat(text.chars().count()));
+                    out.extend(std::iter::repeat_n(rule, widest));
                     out.push('\n');
                 }
                 Block::Table { headers, rows } => {
-                    let mut t = Table::new();
-                    t.load_preset(UTF8_FULL_CONDENSED);
-                    t.set_content_arrangement(ContentArrangement::Dynamic);
-                    t.set_width(120);
-                    if !self.color {
-                        t.force_no_tty();
-                    }
-                    t.set_header(headers);
-                    for row in rows {
-                        t.add_row(
-                            row.iter()
-                                .map(|Cell { text, status }| self.paint(text, *status))
-                                .collect::<Vec<_>>(),
-                        );
-                    }
-                    out.push_str(&t.to_string());
+                    out.push_str(&self.table(&headers, &rows));
                     out.push('\n');
                 }
                 Block::List(title, items) => {
                     out.push('\n');
-                    out.push_str(&title);
-                    out.push_str(":\n");
+                    self.push_lines(&mut out, &format!("{title}:"), "", "");
                     for item in items {
-                        out.push_str("  - ");
-                        out.push_str(&item);
-                        out.push('\n');
+                        self.push_lines(&mut out, &item, "  - ", "    ");
                     }
                 }
-                Block::Line(text) => {
-                    out.push_str(&text);
-                    out.push('\n');
-                }
+                Block::Line(text) => self.push_lines(&mut out, &text, "", ""),
                 Block::Image(alt, path) => {
-                    out.push_str(&format!("{alt}: {path}\n"));
+                    self.push_lines(&mut out, &format!("{alt}: {path}"), "", "  ");
                 }
                 Block::Verdict(text, status) => {
                     out.push('\n');
-                    out.push_str(&self.verdict_line(&text, status));
-                    out.push('\n');
+                    for line in self.lines(&text, "", "") {
+                        out.push_str(&self.verdict_line(&line, status));
+                        out.push('\n');
+                    }
                 }
             }
         }
