@@ -5,14 +5,14 @@ use std::io::{IsTerminal, Write};
 use std::path::{Path, PathBuf};
 
 use crate::analysis::yield_mc::YieldOptions;
-use crate::analysis::{analyse, stage_report_with_yield, Status};
-use crate::board::{read_board, resolve_stage, Origin, RawStage};
+use crate::board::{read_board, resolve_stage, RawStage};
+use crate::check::Status;
 use crate::cli::{Cli, ColorArg, Command, FormatArg, PartsCommand, StageArgs, YieldArgs};
 use crate::error::{Error, Result};
-use crate::parts::{check_file, Library};
-use crate::report::{
-    output_width, renderer_with_width, write_report, Format, StageReport, SummaryRow,
-};
+use crate::fields::Origin;
+use crate::parts::{check_files, Library};
+use crate::pipeline::{self, Options};
+use crate::report::{output_width, renderer_with_width, write_report, Format, StageReport};
 use crate::stage::Stage;
 
 mod flags;
@@ -55,13 +55,15 @@ pub fn run(
     refuse_unused_flags(cli)?;
     match &cli.command {
         Command::Parts(PartsCommand::Check { files }) => {
+            let (parts, mut errors) = check_files(files);
             let mut text = String::new();
-            let mut errors = Vec::new();
-            for f in files {
-                match check_file(f) {
-                    Ok(part) => text.push_str(&format!("{}: ok ({})\n", f.display(), part.id)),
-                    Err(e) => errors.push(e),
-                }
+            for (f, part) in &parts {
+                text.push_str(&format!(
+                    "{}: ok ({}, {})\n",
+                    f.display(),
+                    part.info().id,
+                    part.kind().name
+                ));
             }
             match errors.len() {
                 0 => emit(cli, out, &text),
@@ -76,15 +78,15 @@ pub fn run(
         Command::Parts(PartsCommand::Show { id }) => {
             let lib = Library::load(&paths)?;
             let part = lib.require(id, "pinlow parts show")?;
-            emit(cli, out, &parts_view::show(part, format))
+            emit(cli, out, &parts_view::show(part.as_ref(), format))
         }
         Command::Size {
             stage: args,
             yield_args,
         } => {
-            if args.base_resistor.is_some() {
+            if args.base_resistor.is_some() || args.gate_resistor.is_some() {
                 return Err(Error::Usage(
-                    "--base-resistor: `size` sizes the base resistor; to check a given one use `pinlow audit ... --base-resistor`".into(),
+                    "--base-resistor / --gate-resistor: `size` sizes the input resistor; to check a given one use `pinlow audit ... --base-resistor` (or --gate-resistor)".into(),
                 ));
             }
             let lib = Library::load(&paths)?;
@@ -137,9 +139,9 @@ pub fn run(
                     )
                 }
                 None => {
-                    if stage.base_resistor.is_none() {
+                    if stage.base_resistor.is_none() && stage.gate_resistor.is_none() {
                         return Err(Error::Usage(
-                            "audit needs a board FILE, or stage flags with --base-resistor (use `pinlow size` to size one)".into(),
+                            "audit needs a board FILE, or stage flags with --base-resistor (npn) or --gate-resistor (nmos) (use `pinlow size` to size one)".into(),
                         ));
                     }
                     let s = stage_from_flags(stage, &lib)?;
@@ -173,8 +175,9 @@ fn refuse_unused_flags(cli: &Cli) -> Result<()> {
 fn stage_from_flags(args: &StageArgs, lib: &Library) -> Result<Stage> {
     resolve_stage(
         &raw_from_flags(args)?,
-        &RawStage::default(),
+        &std::sync::Arc::new(RawStage::default()),
         &Origin::Flags,
+        0,
         lib,
     )
 }
@@ -207,7 +210,7 @@ fn emit(cli: &Cli, out: &mut dyn Write, text: &str) -> Result<u8> {
     Ok(0)
 }
 
-/// Analyse, draw plots when asked, and stream the report of these stages.
+/// Analyse each stage once, draw its picture when asked, and stream the report.
 #[allow(clippy::too_many_arguments)]
 fn report(
     cli: &Cli,
@@ -218,33 +221,35 @@ fn report(
     board: Option<String>,
     stages: &[Stage],
 ) -> Result<u8> {
-    let plots = match &cli.plots {
-        Some(dir) => Some(draw_plots(dir, stages)?),
-        None => None,
-    };
+    if let Some(dir) = &cli.plots {
+        std::fs::create_dir_all(dir).map_err(|source| Error::Io {
+            path: dir.to_path_buf(),
+            source,
+        })?;
+    }
     let only = cli.only_problems;
-    let summary = || {
-        stages
-            .iter()
-            .enumerate()
-            .map(|(i, s)| {
-                let mut r = StageReport::from_analysis(s, &analyse(s));
-                r.index = i + 1;
-                SummaryRow::of(&r)
-            })
-            .filter(|row| !only || row.verdict != Status::Pass)
-            .collect()
+    let opts = Options {
+        yield_opts: yield_args.builds.map(|builds| YieldOptions {
+            builds,
+            seed: yield_args.seed.unwrap_or(DEFAULT_SEED),
+        }),
+        picture: cli.plots.is_some(),
     };
-    let yield_opts = yield_args.builds.map(|builds| YieldOptions {
-        builds,
-        seed: yield_args.seed.unwrap_or(DEFAULT_SEED),
-    });
     let bar = progress::Bar::on_stderr(stages.len());
+    let plot_error: std::cell::RefCell<Option<Error>> = std::cell::RefCell::new(None);
     let reports = stages.iter().enumerate().map(|(i, s)| {
-        let mut r = stage_report_with_yield(i + 1, s, yield_opts.as_ref(), &|done, total| {
+        let mut r = pipeline::stage_report(i + 1, s, &opts, &|done, total| {
             bar.update(i + 1, &s.name, done, total)
         });
-        r.plot_svg = plots.as_ref().and_then(|p| p.get(i).cloned());
+        if let (Some(dir), Some(picture)) = (&cli.plots, r.picture.take()) {
+            let path = dir.join(format!("stage-{}.svg", i + 1));
+            match write_svg(&picture, &path) {
+                Ok(()) => r.plot_svg = Some(path.display().to_string()),
+                Err(e) => {
+                    plot_error.borrow_mut().get_or_insert(e);
+                }
+            }
+        }
         r
     });
     let width = cli.output.is_none().then(output_width).flatten();
@@ -257,17 +262,19 @@ fn report(
                 source,
             })?;
             let mut w = std::io::BufWriter::new(file);
-            let tail = write_report(&mut w, renderer.as_mut(), board, summary, reports, show)
+            let tail = write_report(&mut w, renderer.as_mut(), board, reports, show)
                 .and_then(|t| w.flush().map(|_| t));
             tail.map_err(|source| Error::Io {
                 path: path.clone(),
                 source,
             })?
         }
-        None => write_report(out, renderer.as_mut(), board, summary, reports, show)
-            .map_err(stdout_error)?,
+        None => write_report(out, renderer.as_mut(), board, reports, show).map_err(stdout_error)?,
     };
     bar.finish();
+    if let Some(e) = plot_error.into_inner() {
+        return Err(e);
+    }
     Ok(exit_code(tail.verdict, cli.strict))
 }
 
@@ -280,30 +287,22 @@ pub fn exit_code(verdict: Status, strict: bool) -> u8 {
     }
 }
 
-/// Draw every stage into `dir` as `stage-N.svg`; returns the paths in stage order.
-fn draw_plots(dir: &Path, stages: &[Stage]) -> Result<Vec<String>> {
-    std::fs::create_dir_all(dir).map_err(|source| Error::Io {
-        path: dir.to_path_buf(),
-        source,
-    })?;
-    let mut paths = Vec::with_capacity(stages.len());
-    for (i, s) in stages.iter().enumerate() {
-        let path = dir.join(format!("stage-{}.svg", i + 1));
-        write_stage_svg(s, &path)?;
-        paths.push(path.display().to_string());
-    }
-    Ok(paths)
-}
-
-/// Analyse one stage and write its SVG to `path`.
-fn write_stage_svg(s: &Stage, path: &Path) -> Result<()> {
-    let a = analyse(s);
-    let svg = crate::plot::stage_svg(s, &a)
-        .map_err(|e| Error::invalid(format!("stage `{}`", s.name), format!("cannot draw: {e}")))?;
+/// Write a picture's SVG to `path`.
+fn write_svg(picture: &crate::picture::Picture, path: &Path) -> Result<()> {
+    let svg = crate::plot::picture_svg(picture)
+        .map_err(|e| Error::invalid(path.display().to_string(), format!("cannot draw: {e}")))?;
     std::fs::write(path, svg).map_err(|source| Error::Io {
         path: path.to_path_buf(),
         source,
     })
+}
+
+/// Analyse one stage and write its SVG to `path`.
+fn write_stage_svg(s: &Stage, path: &Path) -> Result<()> {
+    let a = crate::analysis::analyse(s);
+    let picture =
+        pipeline::picture(s, &a).map_err(|e| Error::invalid(format!("stage `{}`", s.name), e))?;
+    write_svg(&picture, path)
 }
 
 /// `out.svg` -> `out-N.svg`, beside it.

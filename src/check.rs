@@ -245,7 +245,10 @@ mod tests {
         let a = CheckId::new("pin-current", 20);
         assert_eq!(a, CheckId::new("pin-current", 99));
         assert_eq!(a.to_string(), "pin-current");
-        assert_eq!(serde_json::to_string(&a).ok().as_deref(), Some("\"pin-current\""));
+        assert_eq!(
+            serde_json::to_string(&a).ok().as_deref(),
+            Some("\"pin-current\"")
+        );
     }
 
     #[test]

@@ -164,7 +164,11 @@ impl Error {
     }
 
     /// Shorthand for [`Error::Range`].
-    pub fn range(place: impl Into<Place>, shown: impl Into<String>, reason: impl Into<String>) -> Self {
+    pub fn range(
+        place: impl Into<Place>,
+        shown: impl Into<String>,
+        reason: impl Into<String>,
+    ) -> Self {
         Error::Range {
             place: place.into(),
             shown: shown.into(),
@@ -359,9 +363,13 @@ mod tests {
     #[test]
     fn range_errors_echo_the_value_as_typed() {
         let text = "{\"a\": {\"b\": 1e-400}}";
-        let err = Error::range(Place::json("f.json", "a.b"), "0", "a positive number is needed")
-            .with_position("f.json", text)
-            .to_string();
+        let err = Error::range(
+            Place::json("f.json", "a.b"),
+            "0",
+            "a positive number is needed",
+        )
+        .with_position("f.json", text)
+        .to_string();
         assert_eq!(
             err,
             "f.json: line 1, column 13, at a.b: 1e-400 is not allowed: a positive number is needed"
@@ -379,7 +387,9 @@ mod tests {
             .expect_err("a string is no number")
             .to_string();
         assert!(
-            err.contains("at supply_v: supply_v takes a number of volts, e.g. 12; got string \"12\""),
+            err.contains(
+                "at supply_v: supply_v takes a number of volts, e.g. 12; got string \"12\""
+            ),
             "{err}"
         );
     }
@@ -392,7 +402,10 @@ mod tests {
 
     #[test]
     fn paths_join() {
-        assert_eq!(join_path("stages[2]", "load.coil_ohms"), "stages[2].load.coil_ohms");
+        assert_eq!(
+            join_path("stages[2]", "load.coil_ohms"),
+            "stages[2].load.coil_ohms"
+        );
         assert_eq!(join_path("stages", "[2]"), "stages[2]");
         assert_eq!(join_path("", "x"), "x");
         assert_eq!(join_path("a", ""), "a");

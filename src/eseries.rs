@@ -222,7 +222,11 @@ impl Series {
     /// Series values in any decade from the largest at or below `top` down to the smallest at or
     /// above `bottom` (both within a relative 1e-9), largest first: the walk of the LED sizing,
     /// which may go below 10 ohm (stage-model 6.1). Empty unless `top` >= `bottom` > 0, both finite.
-    pub fn walk_down(self, top: Resistance, bottom: Resistance) -> impl Iterator<Item = Resistance> {
+    pub fn walk_down(
+        self,
+        top: Resistance,
+        bottom: Resistance,
+    ) -> impl Iterator<Item = Resistance> {
         let (top, bottom) = (top.base(), bottom.base());
         let valid = top.is_finite() && bottom.is_finite() && bottom > 0.0 && top >= bottom;
         let mantissas = self.mantissas();
@@ -287,15 +291,18 @@ mod tests {
             .map(|v| v.base())
             .collect();
         let want = [
-            12.0, 11.0, 10.0, 9.1, 8.2, 7.5, 6.8, 6.2, 5.6, 5.1, 4.7, 4.3, 3.9, 3.6, 3.3, 3.0,
-            2.7, 2.4, 2.2, 2.0, 1.8, 1.6, 1.5, 1.3, 1.2, 1.1, 1.0,
+            12.0, 11.0, 10.0, 9.1, 8.2, 7.5, 6.8, 6.2, 5.6, 5.1, 4.7, 4.3, 3.9, 3.6, 3.3, 3.0, 2.7,
+            2.4, 2.2, 2.0, 1.8, 1.6, 1.5, 1.3, 1.2, 1.1, 1.0,
         ];
         assert_eq!(got.len(), want.len(), "{got:?}");
         for (g, w) in got.iter().zip(want) {
             assert!((g - w).abs() < 1e-9 * w, "{g} vs {w}");
         }
         assert_eq!(Series::E24.walk_down(r(1.0), r(2.0)).count(), 0);
-        let first = Series::E12.walk_down(r(150.0), r(0.15)).next().map(|v| v.base());
+        let first = Series::E12
+            .walk_down(r(150.0), r(0.15))
+            .next()
+            .map(|v| v.base());
         assert_eq!(first, Some(150.0));
     }
 

@@ -118,7 +118,11 @@ impl<'a> Fields<'a> {
                     message: format!(
                         "unknown key `{key}` for {}; it takes {}",
                         fields.object,
-                        if known.is_empty() { "no other key".to_string() } else { known }
+                        if known.is_empty() {
+                            "no other key".to_string()
+                        } else {
+                            known
+                        }
                     ),
                 });
             }
@@ -207,7 +211,10 @@ impl<'a> Fields<'a> {
     pub fn missing(&self, key: &str) -> Error {
         let what = self.spec(key).map(|s| s.what).unwrap_or("a value");
         match self.origin {
-            Origin::Flags => Error::invalid(self.place(key), format!("missing ({what}) for {}", self.object)),
+            Origin::Flags => Error::invalid(
+                self.place(key),
+                format!("missing ({what}) for {}", self.object),
+            ),
             Origin::File(_) => Error::invalid(
                 self.object_place(),
                 format!("missing `{key}` ({what}) in {}", self.object),
@@ -311,7 +318,10 @@ mod tests {
             serde_json::from_str(r#"{"coil_ohms": "400"}"#).expect("json");
         let f = Fields::new(&map, &origin, "load", "a relay load", specs()).expect("known keys");
         let err = f.need("coil_ohms", OHMS).expect_err("a string").to_string();
-        assert_eq!(err, "--coil: coil_ohms takes a number of ohms, e.g. 400; got a string");
+        assert_eq!(
+            err,
+            "--coil: coil_ohms takes a number of ohms, e.g. 400; got a string"
+        );
         let map: Map<String, Value> = serde_json::from_str(r#"{"coil_ohms": 0}"#).expect("json");
         let f = Fields::new(&map, &origin, "load", "a relay load", specs()).expect("known keys");
         let err = f.need("coil_ohms", OHMS).expect_err("zero").to_string();
@@ -319,13 +329,22 @@ mod tests {
         let empty = Map::new();
         let f = Fields::new(&empty, &origin, "load", "a relay load", specs()).expect("empty");
         let err = f.need("coil_ohms", OHMS).expect_err("missing").to_string();
-        assert_eq!(err, "--coil: missing (the coil resistance at 20 °C) for a relay load");
+        assert_eq!(
+            err,
+            "--coil: missing (the coil resistance at 20 °C) for a relay load"
+        );
     }
 
     #[test]
     fn forms_follow_the_unit_suffix() {
-        assert_eq!(form_of_key("coil_ohms"), Some("a number of ohms, e.g. 4700"));
-        assert_eq!(form_of_key("supply_tolerance"), Some("a fraction, e.g. 0.05 for ±5 %"));
+        assert_eq!(
+            form_of_key("coil_ohms"),
+            Some("a number of ohms, e.g. 4700")
+        );
+        assert_eq!(
+            form_of_key("supply_tolerance"),
+            Some("a fraction, e.g. 0.05 for ±5 %")
+        );
         assert_eq!(form_of_key("zzz"), None);
         assert_eq!(pct(0.05), "5 %");
     }

@@ -205,7 +205,10 @@ mod tests {
     #[test]
     fn tokens_come_as_typed() {
         let t = locate_token("{\"a\": [1e-400, {\"b\": true}]}", "a[0]").expect("found");
-        assert_eq!((t.line, t.column, t.token.as_deref()), (1, 8, Some("1e-400")));
+        assert_eq!(
+            (t.line, t.column, t.token.as_deref()),
+            (1, 8, Some("1e-400"))
+        );
         let t = locate_token("{\"a\": {\"b\": 1}}", "a").expect("found");
         assert_eq!(t.token, None);
     }

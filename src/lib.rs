@@ -21,16 +21,24 @@
 pub mod analysis;
 pub mod app;
 pub mod board;
+pub mod check;
 pub mod cli;
+pub mod conditions;
+pub mod drive;
 pub mod error;
 pub mod eseries;
+pub mod fields;
 pub mod jsonpos;
 pub mod load;
 pub mod parts;
+pub mod picture;
+pub mod pipeline;
 pub mod plot;
 pub mod quantity;
 pub mod read;
+pub mod remedy;
 pub mod report;
+pub mod shape;
 pub mod stage;
 
 pub use error::{Error, Result};

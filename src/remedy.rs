@@ -110,6 +110,9 @@ mod tests {
     fn whole_numbers_are_written_without_a_fraction() {
         assert_eq!(number(1000.0).to_string(), "1000");
         assert_eq!(number(0.25).to_string(), "0.25");
-        assert_eq!(Edit::Size("base_resistor_ohms").field(), "base_resistor_ohms");
+        assert_eq!(
+            Edit::Size("base_resistor_ohms").field(),
+            "base_resistor_ohms"
+        );
     }
 }

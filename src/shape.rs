@@ -53,7 +53,12 @@ pub fn object(value: &Value, file: &str, path: &str, what: &str) -> Result<()> {
 pub fn objects_in(value: &Value, key: &str, file: &str, path: &str, what: &str) -> Result<()> {
     if let Some(Value::Array(items)) = value.get(key) {
         for (i, item) in items.iter().enumerate() {
-            object(item, file, &join_path(&join_path(path, key), &format!("[{i}]")), what)?;
+            object(
+                item,
+                file,
+                &join_path(&join_path(path, key), &format!("[{i}]")),
+                what,
+            )?;
         }
     }
     Ok(())
@@ -73,8 +78,8 @@ mod tests {
             err,
             "p.json: gain_min[0]: a gain point is written as an object with named keys, not an array"
         );
-        let v: Value =
-            serde_json::from_str(r#"{"a": {"pull_down_ohms": null, "b": [1, null]}}"#).expect("json");
+        let v: Value = serde_json::from_str(r#"{"a": {"pull_down_ohms": null, "b": [1, null]}}"#)
+            .expect("json");
         let err = no_nulls(&v, "b.json", "", &["pull_down_ohms"])
             .expect_err("null in a list")
             .to_string();

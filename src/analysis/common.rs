@@ -5,7 +5,9 @@
 use serde_json::json;
 
 use super::resistors::ResistorUse;
-use crate::check::{why, Explain, Finding, Status, CLAMP_RATING, JUNCTION_TEMP, PIN_CURRENT, RESISTOR_POWER};
+use crate::check::{
+    why, Explain, Finding, Status, CLAMP_RATING, JUNCTION_TEMP, PIN_CURRENT, RESISTOR_POWER,
+};
 use crate::conditions::Conditions;
 use crate::drive::{Corner, DriveAnalysis, Ratings};
 use crate::load::{Clamp, ClampProposal, CLAMP_REVERSE_MARGIN};
@@ -30,8 +32,19 @@ pub const DIODE_CURRENT_STEPS_A: [f64; 5] = [0.2, 0.5, 1.0, 3.0, 5.0];
 pub fn pin_current(c: &Conditions, d: &DriveAnalysis) -> Finding {
     let i = d.pin_current_max.base();
     let limit = c.pin_limit.base();
-    let status = if i <= limit { Status::Pass } else { Status::Fail };
-    Finding::new(PIN_CURRENT, status, Some(i), Some(limit), "A", why(Pin { i, limit }))
+    let status = if i <= limit {
+        Status::Pass
+    } else {
+        Status::Fail
+    };
+    Finding::new(
+        PIN_CURRENT,
+        status,
+        Some(i),
+        Some(limit),
+        "A",
+        why(Pin { i, limit }),
+    )
 }
 
 /// The current-rating check (collector-current, drain-current).
@@ -40,7 +53,14 @@ pub fn current_rating(r: &Ratings, corner: &Corner) -> Finding {
     let rated = r.current.base();
     let pass = CURRENT_DERATING * rated;
     let status = Status::at_most(i, pass, rated);
-    Finding::new(r.current_check, status, Some(i), Some(pass), "A", why(Rated { status, i, rated }))
+    Finding::new(
+        r.current_check,
+        status,
+        Some(i),
+        Some(pass),
+        "A",
+        why(Rated { status, i, rated }),
+    )
 }
 
 /// The voltage-rating check (collector-voltage, drain-voltage): an inductive load with no clamp
@@ -113,16 +133,29 @@ pub fn clamp_rating(clamp: &Clamp, corner: &Corner, proposal: &ClampProposal) ->
     }
     let vcc_max = corner.vcc_max.base();
     let ic_max = corner.current_max.base();
-    let reverse_status = reverse.map(|r| Status::at_least(r.base(), CLAMP_REVERSE_MARGIN * vcc_max, vcc_max));
-    let current_status = current.map(|i| if i.base() >= ic_max { Status::Pass } else { Status::Fail });
-    let status = reverse_status.unwrap_or(Status::Pass).max(current_status.unwrap_or(Status::Pass));
+    let reverse_status =
+        reverse.map(|r| Status::at_least(r.base(), CLAMP_REVERSE_MARGIN * vcc_max, vcc_max));
+    let current_status = current.map(|i| {
+        if i.base() >= ic_max {
+            Status::Pass
+        } else {
+            Status::Fail
+        }
+    });
+    let status = reverse_status
+        .unwrap_or(Status::Pass)
+        .max(current_status.unwrap_or(Status::Pass));
     let use_reverse = match (reverse_status, current_status) {
         (Some(r), Some(i)) => r >= i,
         (Some(_), None) => true,
         _ => false,
     };
     let (value, limit, unit) = if use_reverse {
-        (reverse.map(|r| r.base()), Some(CLAMP_REVERSE_MARGIN * vcc_max), "V")
+        (
+            reverse.map(|r| r.base()),
+            Some(CLAMP_REVERSE_MARGIN * vcc_max),
+            "V",
+        )
     } else {
         (current.map(|i| i.base()), Some(ic_max), "A")
     };
@@ -146,9 +179,18 @@ pub fn clamp_rating(clamp: &Clamp, corner: &Corner, proposal: &ClampProposal) ->
 
 /// resistor-power: the resistor closest to its rating decides.
 pub fn resistor_power(resistors: &[ResistorUse]) -> Finding {
-    let worst = resistors.iter().max_by(|a, b| a.load_ratio().total_cmp(&b.load_ratio()));
+    let worst = resistors
+        .iter()
+        .max_by(|a, b| a.load_ratio().total_cmp(&b.load_ratio()));
     let Some(r) = worst else {
-        return Finding::new(RESISTOR_POWER, Status::Pass, None, None, "W", why(NoResistor));
+        return Finding::new(
+            RESISTOR_POWER,
+            Status::Pass,
+            None,
+            None,
+            "W",
+            why(NoResistor),
+        );
     };
     let p = r.worst_power.base();
     let rating = r.rating.base();
@@ -330,9 +372,17 @@ struct Pin {
 impl Explain for Pin {
     fn sentence(&self) -> String {
         if self.i <= self.limit {
-            format!("the pin sources at most {} of its {} limit", fe(self.i, "A"), fe(self.limit, "A"))
+            format!(
+                "the pin sources at most {} of its {} limit",
+                fe(self.i, "A"),
+                fe(self.limit, "A")
+            )
         } else {
-            format!("the pin would source {}, above its {} limit", fe(self.i, "A"), fe(self.limit, "A"))
+            format!(
+                "the pin would source {}, above its {} limit",
+                fe(self.i, "A"),
+                fe(self.limit, "A")
+            )
         }
     }
 }
@@ -351,7 +401,11 @@ impl Explain for Rated {
             Status::Marginal => "above 80 % of",
             Status::Fail => "above",
         };
-        format!("the load draws at most {}, {word} the part's {} rating", fe(self.i, "A"), fe(self.rated, "A"))
+        format!(
+            "the load draws at most {}, {word} the part's {} rating",
+            fe(self.i, "A"),
+            fe(self.rated, "A")
+        )
     }
 }
 
@@ -379,7 +433,13 @@ impl Explain for Peak {
             Status::Marginal => "above 80 % of",
             Status::Fail => "above",
         };
-        format!("the {} peaks at {}, {word} {} {}", self.terminal, fe(peak, "V"), self.name, fe(self.rating, "V"))
+        format!(
+            "the {} peaks at {}, {word} {} {}",
+            self.terminal,
+            fe(peak, "V"),
+            self.name,
+            fe(self.rating, "V")
+        )
     }
 }
 
@@ -507,13 +567,30 @@ impl Explain for ResistorWords {
 
 #[derive(Debug)]
 enum Advice {
-    Current { need: f64, draws: f64 },
-    Voltage { need: f64, peak: f64, name: &'static str, zener: bool },
-    FitClamp { reverse: f64, current: f64 },
-    Thermal { rth: f64, power: f64, ambient: f64 },
+    Current {
+        need: f64,
+        draws: f64,
+    },
+    Voltage {
+        need: f64,
+        peak: f64,
+        name: &'static str,
+        zener: bool,
+    },
+    FitClamp {
+        reverse: f64,
+        current: f64,
+    },
+    Thermal {
+        rth: f64,
+        power: f64,
+        ambient: f64,
+    },
     NoMargin,
     Runaway,
-    Rating { needed: f64 },
+    Rating {
+        needed: f64,
+    },
     TooHot,
     PinTooWeak,
 }

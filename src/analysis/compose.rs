@@ -58,7 +58,10 @@ pub struct Remedy {
 impl Remedy {
     /// The fields to set, as the JSON `apply` object.
     pub fn apply(&self) -> Map<String, Value> {
-        self.changes.iter().map(|c| (c.field.clone(), c.to.clone())).collect()
+        self.changes
+            .iter()
+            .map(|c| (c.field.clone(), c.to.clone()))
+            .collect()
     }
 }
 
@@ -97,7 +100,10 @@ pub fn compose(stage: &Stage, a: &Analysis) -> Option<Remedy> {
         return None;
     }
     let proposals = proposals(stage, a);
-    let edits: Vec<Edit> = proposals.iter().flat_map(|p| p.edits.iter().cloned()).collect();
+    let edits: Vec<Edit> = proposals
+        .iter()
+        .flat_map(|p| p.edits.iter().cloned())
+        .collect();
     if edits.is_empty() {
         return Some(Remedy {
             proposals,
@@ -146,7 +152,12 @@ fn current(own: &Map<String, Value>, defaults: &Map<String, Value>, field: &str)
 
 /// Set (`Some`) or remove (`None`) a field in the stage's own object; a field inside an object
 /// the stage takes from the defaults copies that object into the stage first.
-fn put(own: &mut Map<String, Value>, defaults: &Map<String, Value>, field: &str, value: Option<Value>) {
+fn put(
+    own: &mut Map<String, Value>,
+    defaults: &Map<String, Value>,
+    field: &str,
+    value: Option<Value>,
+) {
     match field.split_once('.') {
         Some((object, key)) => {
             if !own.contains_key(object) {
@@ -177,13 +188,21 @@ fn put(own: &mut Map<String, Value>, defaults: &Map<String, Value>, field: &str,
 }
 
 /// Resolve `own` over `defaults` with the stage's own part, and analyse it.
-fn rerun(stage: &Stage, own: &Map<String, Value>, defaults: &Map<String, Value>) -> Result<(RawStage, Stage, Analysis)> {
+fn rerun(
+    stage: &Stage,
+    own: &Map<String, Value>,
+    defaults: &Map<String, Value>,
+) -> Result<(RawStage, Stage, Analysis)> {
     let raw = from_map(own.clone())?;
     let defaults = Arc::new(from_map(defaults.clone())?);
     let switch = Arc::clone(&stage.switch);
-    let s = resolve_with(&raw, &defaults, &stage.source.origin, stage.source.index, &|_, _| {
-        Ok(Arc::clone(&switch))
-    })?;
+    let s = resolve_with(
+        &raw,
+        &defaults,
+        &stage.source.origin,
+        stage.source.index,
+        &|_, _| Ok(Arc::clone(&switch)),
+    )?;
     let a = analyse(&s);
     Ok((raw, s, a))
 }
@@ -222,12 +241,22 @@ fn apply(stage: &Stage, before: &Analysis, edits: &[Edit]) -> Result<(Vec<Change
     let (_, _, first) = rerun(stage, &own, &local_defaults)?;
     // Write what the engine sized as fitted values, with a fitted rating that covers them all.
     if first.drive.series_sized {
-        put(&mut own, &defaults, kind.series.key, Some(number(first.drive.series.value())));
+        put(
+            &mut own,
+            &defaults,
+            kind.series.key,
+            Some(number(first.drive.series.value())),
+        );
         note(kind.series.key);
     }
     if first.drive.pull_down_sized {
         if let Some(r) = first.drive.pull_down {
-            put(&mut own, &defaults, "pull_down_ohms", Some(number(r.value())));
+            put(
+                &mut own,
+                &defaults,
+                "pull_down_ohms",
+                Some(number(r.value())),
+            );
             note("pull_down_ohms");
         }
     }
@@ -244,7 +273,12 @@ fn apply(stage: &Stage, before: &Analysis, edits: &[Edit]) -> Result<(Vec<Change
         .filter_map(|r| r.needed_rating.map(|p| p.value()))
         .fold(0.0_f64, f64::max);
     if needed > stage.conditions.fitted_rating().value() {
-        put(&mut own, &defaults, "resistor_rating_w", Some(number(needed)));
+        put(
+            &mut own,
+            &defaults,
+            "resistor_rating_w",
+            Some(number(needed)),
+        );
         note("resistor_rating_w");
     }
     let (raw, s2, a2) = rerun(stage, &own, &defaults)?;
@@ -270,7 +304,10 @@ fn apply(stage: &Stage, before: &Analysis, edits: &[Edit]) -> Result<(Vec<Change
         .findings
         .iter()
         .filter_map(|f| {
-            let old = before.finding(f.id).map(|b| b.status).unwrap_or(Status::Pass);
+            let old = before
+                .finding(f.id)
+                .map(|b| b.status)
+                .unwrap_or(Status::Pass);
             (f.status > old).then_some((f.id, old, f.status))
         })
         .collect();

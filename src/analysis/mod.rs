@@ -112,7 +112,14 @@ pub fn analyse(stage: &Stage) -> Analysis {
         drive.series_power,
     )];
     if let (Some(r), Some(p)) = (drive.pull_down, drive.pull_down_power) {
-        resistors.push(ResistorUse::new(c, kind.pull_down.symbol, kind.pull_down.role, r, drive.pull_down_sized, p));
+        resistors.push(ResistorUse::new(
+            c,
+            kind.pull_down.symbol,
+            kind.pull_down.role,
+            r,
+            drive.pull_down_sized,
+            p,
+        ));
     }
     if let (Some(o), Some(r)) = (own, own_value) {
         if let Some(p) = load.own_resistor_power(c, r) {
@@ -161,7 +168,10 @@ pub fn analyse(stage: &Stage) -> Analysis {
     figures.extend(load.figures(&ctx));
 
     let mut extra_assumptions = Vec::new();
-    if resistors.iter().any(|r| r.rating_source == RatingSource::Assumed) {
+    if resistors
+        .iter()
+        .any(|r| r.rating_source == RatingSource::Assumed)
+    {
         extra_assumptions.push(format!(
             "fitted resistors rated {} assumed [practice]",
             fe(crate::conditions::DEFAULT_RESISTOR_RATING_W, "W")
@@ -221,9 +231,14 @@ fn cautions(stage: &Stage, corner: &Corner) -> Vec<Why> {
 
 #[derive(Debug)]
 enum Caution {
-    AboveElv { vcc_max: f64 },
+    AboveElv {
+        vcc_max: f64,
+    },
     CoilSideOnly,
-    ShippedPart { id: String, provenance: String },
+    ShippedPart {
+        id: String,
+        provenance: String,
+    },
     Implausible {
         what: &'static str,
         value: f64,

@@ -60,7 +60,10 @@ pub fn board_name(file: &str, value: Option<&Value>) -> Result<Option<String>> {
         }
         Some(other) => Err(Error::Json {
             place: Place::json(file, "board"),
-            message: format!("board takes a string, the board's name; got {}", json_type(other)),
+            message: format!(
+                "board takes a string, the board's name; got {}",
+                json_type(other)
+            ),
         }),
     }
 }
@@ -86,7 +89,9 @@ fn board_from_value(file: &str, value: &Value, lib: &Library) -> Result<Board> {
         if !BOARD_KEYS.contains(&key.as_str()) {
             return Err(Error::Json {
                 place: Place::json(file, key.clone()),
-                message: format!("unknown key `{key}`; a board file takes board, defaults and stages"),
+                message: format!(
+                    "unknown key `{key}`; a board file takes board, defaults and stages"
+                ),
             });
         }
     }
@@ -101,7 +106,10 @@ fn board_from_value(file: &str, value: &Value, lib: &Library) -> Result<Board> {
         Some(other) => {
             return Err(Error::Json {
                 place: Place::json(file, "stages"),
-                message: format!("stages takes an array of stage objects; got {}", json_type(other)),
+                message: format!(
+                    "stages takes an array of stage objects; got {}",
+                    json_type(other)
+                ),
             })
         }
         None => {
@@ -153,8 +161,9 @@ mod tests {
             .expect_err("refused")
             .to_string();
         assert!(
-            err.contains("b.json: line 3, column 56, at stages[0].load.coil_ohms: 1e300 is not allowed")
-                && err.contains("pinlow accepts"),
+            err.contains(
+                "b.json: line 3, column 56, at stages[0].load.coil_ohms: 1e300 is not allowed"
+            ) && err.contains("pinlow accepts"),
             "{err}"
         );
         let text = r#"{"stages": [{"name": "S", "part": "demo-npn-40v", "supply_v": 12,
@@ -163,7 +172,10 @@ mod tests {
             .expect_err("refused")
             .to_string();
         // The value is echoed as typed, not as what the parser made of it (0).
-        assert!(err.contains("load.current_a: 1e-400 is not allowed"), "{err}");
+        assert!(
+            err.contains("load.current_a: 1e-400 is not allowed"),
+            "{err}"
+        );
     }
 
     #[test]
@@ -206,7 +218,9 @@ mod tests {
             (r#"{"stages": [], "extra": 1}"#, "unknown key `extra`"),
         ];
         for (text, needle) in cases {
-            let err = parse_board("b.json", text, &lib()).expect_err(needle).to_string();
+            let err = parse_board("b.json", text, &lib())
+                .expect_err(needle)
+                .to_string();
             assert!(err.contains(needle), "{needle}: {err}");
         }
         let ok = r#"{"$schema": "x", "stages": [{"name": "K1", "part": "demo-npn-40v", "supply_v": 12, "logic_high_v": 3.3, "load": {"kind": "current", "current_a": 0.1}, "pull_down_ohms": null}]}"#;
@@ -217,7 +231,9 @@ mod tests {
     fn a_key_of_the_other_drive_kind_names_the_right_one() {
         let text = r#"{"stages": [{"name": "K1", "part": "demo-npn-40v", "supply_v": 12, "logic_high_v": 3.3,
             "load": {"kind": "current", "current_a": 0.1}, "gate_resistor_ohms": 100}]}"#;
-        let err = parse_board("b.json", text, &lib()).expect_err("npn has no gate").to_string();
+        let err = parse_board("b.json", text, &lib())
+            .expect_err("npn has no gate")
+            .to_string();
         assert!(err.contains("give `base_resistor_ohms`"), "{err}");
     }
 }

@@ -125,7 +125,11 @@ impl Resolver<'_> {
     }
 
     /// Own value, else the default's, with its place.
-    fn pick_at<T: Clone>(&self, key: &str, get: impl Fn(&RawStage) -> Option<T>) -> Option<(T, Place)> {
+    fn pick_at<T: Clone>(
+        &self,
+        key: &str,
+        get: impl Fn(&RawStage) -> Option<T>,
+    ) -> Option<(T, Place)> {
         self.pick(get).map(|(v, d)| (v, self.place(key, d)))
     }
 
@@ -135,7 +139,10 @@ impl Resolver<'_> {
                 Place::json(file.clone(), format!("stages[{}]", self.index)),
                 format!("missing `{key}` ({what}); give it in the stage or in `defaults`"),
             ),
-            Origin::Flags => Error::invalid(Place::Flag(flag_for(key).into()), format!("missing ({what})")),
+            Origin::Flags => Error::invalid(
+                Place::Flag(flag_for(key).into()),
+                format!("missing ({what})"),
+            ),
         }
     }
 
@@ -159,7 +166,10 @@ impl Resolver<'_> {
         }
         let given_name = match &self.own.name {
             Some(n) if n.trim().is_empty() => {
-                return Err(Error::invalid(self.place("name", false), "must not be empty"))
+                return Err(Error::invalid(
+                    self.place("name", false),
+                    "must not be empty",
+                ))
             }
             Some(n) => {
                 if let Some(c) = n.chars().find(|c| is_control(*c)) {
@@ -244,7 +254,11 @@ impl Resolver<'_> {
             None => None,
         };
         let pull_down = match self.pick(|r| r.pull_down_ohms) {
-            Some((Some(v), d)) => PullDown::Given(ohms(Self::within(v, OHMS, self.place("pull_down_ohms", d))?)),
+            Some((Some(v), d)) => PullDown::Given(ohms(Self::within(
+                v,
+                OHMS,
+                self.place("pull_down_ohms", d),
+            )?)),
             Some((None, _)) => PullDown::None,
             // files.md: with a given series resistor a missing pull-down means none; when
             // sizing, it is sized.
@@ -289,7 +303,10 @@ impl Resolver<'_> {
             };
             Error::invalid(
                 place,
-                format!("unknown load kind `{kind_name}`; the kinds are {}", load::kind_names()),
+                format!(
+                    "unknown load kind `{kind_name}`; the kinds are {}",
+                    load::kind_names()
+                ),
             )
         })?;
         let mut notes = std::mem::take(&mut self.assumptions);
@@ -306,7 +323,12 @@ impl Resolver<'_> {
                     conditions: &conditions,
                     assumptions: &mut notes,
                 };
-                let clamp = Clamp::resolve(&raw, self.origin, &self.path("clamp", from_defaults), &mut res)?;
+                let clamp = Clamp::resolve(
+                    &raw,
+                    self.origin,
+                    &self.path("clamp", from_defaults),
+                    &mut res,
+                )?;
                 if load.kick(&conditions).is_none() && clamp != Clamp::None {
                     notes.push(format!(
                         "the {} clamp is not used: a {} load does not kick back at turn-off",
@@ -321,7 +343,8 @@ impl Resolver<'_> {
             None => Clamp::None,
         };
         self.assumptions = notes;
-        let resistor_tolerance = match self.pick_at("resistor_tolerance", |r| r.resistor_tolerance) {
+        let resistor_tolerance = match self.pick_at("resistor_tolerance", |r| r.resistor_tolerance)
+        {
             Some((v, at)) => check_fraction(v, at)?,
             None => {
                 self.assume(format!(
@@ -338,8 +361,7 @@ impl Resolver<'_> {
         let series_given = self.pick(|r| r.series).map(|(s, _)| s);
         conditions.resistor_tolerance = resistor_tolerance;
         conditions.resistor_rating = resistor_rating;
-        let sizes_something =
-            series_resistor.is_none() || load.own_resistor_given() == Some(None);
+        let sizes_something = series_resistor.is_none() || load.own_resistor_given() == Some(None);
         if series_given.is_none() && sizes_something {
             self.assume("E24 series assumed for sized values [std IEC 60063]".to_string());
         }
@@ -394,7 +416,11 @@ impl Resolver<'_> {
                     format!(
                         "`{key}` belongs to {} stages; the part `{}` is {}: give `{}` ({} {})",
                         other.name,
-                        self.own.part.as_deref().or(self.defaults.part.as_deref()).unwrap_or("?"),
+                        self.own
+                            .part
+                            .as_deref()
+                            .or(self.defaults.part.as_deref())
+                            .unwrap_or("?"),
                         kind.name,
                         kind.series.key,
                         kind.series.symbol,
@@ -402,7 +428,11 @@ impl Resolver<'_> {
                     ),
                 ));
             }
-            for key in other.stage_keys.iter().filter(|k| !kind.stage_keys.contains(k)) {
+            for key in other
+                .stage_keys
+                .iter()
+                .filter(|k| !kind.stage_keys.contains(k))
+            {
                 let given = match *key {
                     "overdrive" => self.own.overdrive.is_some(),
                     _ => false,

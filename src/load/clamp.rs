@@ -210,7 +210,12 @@ mod tests {
             conditions: &c,
             assumptions: &mut notes,
         };
-        Clamp::resolve(&map, &Origin::File("b.json".into()), "stages[0].clamp", &mut res)
+        Clamp::resolve(
+            &map,
+            &Origin::File("b.json".into()),
+            "stages[0].clamp",
+            &mut res,
+        )
     }
 
     #[test]
@@ -225,12 +230,17 @@ mod tests {
         let err = read(r#"{"kind": "none", "typo_key": 1, "zener_v": 24}"#)
             .expect_err("none takes no keys")
             .to_string();
-        assert!(err.contains("unknown key `typo_key` for a none clamp"), "{err}");
+        assert!(
+            err.contains("unknown key `typo_key` for a none clamp"),
+            "{err}"
+        );
         let err = read(r#"{"kind": "diode", "zener_v": 24}"#)
             .expect_err("a diode has no Zener voltage")
             .to_string();
         assert!(err.contains("stages[0].clamp.zener_v"), "{err}");
-        let err = read(r#"{"kind": "snubber"}"#).expect_err("unknown kind").to_string();
+        let err = read(r#"{"kind": "snubber"}"#)
+            .expect_err("unknown kind")
+            .to_string();
         assert!(err.contains("unknown clamp kind `snubber`"), "{err}");
     }
 }

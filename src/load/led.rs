@@ -139,7 +139,9 @@ fn resolve(f: &Fields<'_>, res: &mut Resolution<'_>) -> crate::Result<SharedLoad
     if lo > vf || vf > hi {
         return Err(crate::Error::invalid(
             f.place("forward_v"),
-            format!("the forward voltages must run min <= nominal <= max; got {lo} <= {vf} <= {hi} V"),
+            format!(
+                "the forward voltages must run min <= nominal <= max; got {lo} <= {vf} <= {hi} V"
+            ),
         ));
     }
     let current = f.need("current_a", AMPS)?;
@@ -283,8 +285,18 @@ impl Load for Led {
             .and_then(|o| o.value)
             .map(|rl| self.currents(ctx.conditions, rl, ctx.on_voltage_max));
         vec![
-            Figure::new("led_current_min_a", currents.map(|c| c.min.base()), None, 1.0),
-            Figure::new("led_current_max_a", currents.map(|c| c.max.base()), None, 1.0),
+            Figure::new(
+                "led_current_min_a",
+                currents.map(|c| c.min.base()),
+                None,
+                1.0,
+            ),
+            Figure::new(
+                "led_current_max_a",
+                currents.map(|c| c.max.base()),
+                None,
+                1.0,
+            ),
         ]
     }
 
@@ -426,7 +438,10 @@ struct LedReason {
 impl Explain for LedReason {
     fn sentence(&self) -> String {
         let ceiling = if self.ceiling_assumed {
-            format!("{} ceiling (1.5 x the target, assumed)", fe(self.ceiling, "A"))
+            format!(
+                "{} ceiling (1.5 x the target, assumed)",
+                fe(self.ceiling, "A")
+            )
         } else {
             format!("{} absolute maximum", fe(self.ceiling, "A"))
         };
@@ -469,9 +484,15 @@ impl Explain for LedReason {
 
 #[derive(Debug)]
 enum LedFix {
-    Resize { series: &'static str },
+    Resize {
+        series: &'static str,
+    },
     ConstantCurrent,
-    Headroom { supply_min: f64, spare: f64, count: u32 },
+    Headroom {
+        supply_min: f64,
+        spare: f64,
+        count: u32,
+    },
 }
 
 impl Explain for LedFix {

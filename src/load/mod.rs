@@ -23,9 +23,11 @@ use std::sync::Arc;
 
 use crate::check::{Figure, Finding};
 use crate::conditions::Conditions;
-use crate::quantity::{Base, Current, Inductance, Power, Resistance, Temperature, ValueKind, Voltage};
-use crate::remedy::Proposal;
 use crate::fields::{Fields, KeySpec, Origin, Resolution};
+use crate::quantity::{
+    Base, Current, Inductance, Power, Resistance, Temperature, ValueKind, Voltage,
+};
+use crate::remedy::Proposal;
 
 /// Temperature coefficient of annealed copper at 20 C, per kelvin [std IEC 60028].
 pub const COPPER_ALPHA_PER_K: f64 = 0.00393;
@@ -280,8 +282,16 @@ mod tests {
         // 443 ohm at 125 C. From 25 C: R20 = 320 / (1 + 0.00393 x 5) = 313.83 ohm; at 125 C
         // R = 313.83 x (1 + 0.00393 x 105) = 443.3 ohm.
         let r20 = ohms(320.0 / (1.0 + 0.00393 * 5.0));
-        assert_relative_eq!(copper_at(r20, celsius(25.0)).base(), 320.0, max_relative = 1e-9);
-        assert_relative_eq!(copper_at(r20, celsius(125.0)).base(), 443.0, max_relative = 0.002);
+        assert_relative_eq!(
+            copper_at(r20, celsius(25.0)).base(),
+            320.0,
+            max_relative = 1e-9
+        );
+        assert_relative_eq!(
+            copper_at(r20, celsius(125.0)).base(),
+            443.0,
+            max_relative = 0.002
+        );
     }
 
     #[test]

@@ -150,7 +150,11 @@ mod tests {
             tolerance: 0.1,
             inductance: None,
         };
-        assert_relative_eq!(m.current_max(&c, None).base(), 12.6 / 4.55112, max_relative = 1e-9);
+        assert_relative_eq!(
+            m.current_max(&c, None).base(),
+            12.6 / 4.55112,
+            max_relative = 1e-9
+        );
         assert!(m.kick(&c).is_some(), "a winding kicks back");
     }
 }

@@ -405,7 +405,11 @@ mod tests {
         // Common practice: a coil bears about 110 % of its rating continuously (from memory);
         // 12.6 V on a 1 V coil is 1260 %.
         let c = conditions(0.0);
-        for (rated, want) in [(12.0, Status::Pass), (10.5, Status::Marginal), (1.0, Status::Fail)] {
+        for (rated, want) in [
+            (12.0, Status::Pass),
+            (10.5, Status::Marginal),
+            (1.0, Status::Fail),
+        ] {
             let r = relay(rated);
             let ctx = LoadContext {
                 conditions: &c,
@@ -417,7 +421,10 @@ mod tests {
             };
             let mut out = Vec::new();
             r.checks(&ctx, &mut out);
-            let f = out.iter().find(|f| f.id == COIL_VOLTAGE).expect("coil-voltage runs");
+            let f = out
+                .iter()
+                .find(|f| f.id == COIL_VOLTAGE)
+                .expect("coil-voltage runs");
             assert_eq!(f.status, want, "{rated} V coil: {}", f.detail());
         }
     }

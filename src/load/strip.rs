@@ -9,7 +9,9 @@ use crate::check::{why, CheckId, Explain, Finding, Status};
 use crate::conditions::Conditions;
 use crate::fields::{Fields, Resolution};
 use crate::quantity::limits::{AMPS, METRES, VOLTS};
-use crate::quantity::{amps, format_engineering as fe, volts, Base, Current, Resistance, ValueKind, Voltage};
+use crate::quantity::{
+    amps, format_engineering as fe, volts, Base, Current, Resistance, ValueKind, Voltage,
+};
 use crate::remedy::{Bound, PartNeed, Proposal};
 
 /// The share of the rated voltage that falls on the strip's own resistors [practice, memory]:
@@ -145,7 +147,11 @@ impl Load for Strip {
             STRIP_VOLTAGE,
             vec![PartNeed {
                 figure: "strip rated voltage",
-                bound: if too_high { Bound::AtLeast } else { Bound::AtMost },
+                bound: if too_high {
+                    Bound::AtLeast
+                } else {
+                    Bound::AtMost
+                },
                 value: if too_high {
                     ctx.vcc_max.base() / HIGH_PASS
                 } else {
@@ -269,6 +275,10 @@ mod tests {
         // Below the rating it is held at the rated current (conservative).
         assert_relative_eq!(s.current_at(volts(11.0)).base(), 1.0, max_relative = 1e-12);
         // A 5 V strip on 12.6 V: 1 + 7.6 / 1.25 = 7.08 times its rated current.
-        assert_relative_eq!(strip(5.0).current_at(volts(12.6)).base(), 7.08, max_relative = 1e-12);
+        assert_relative_eq!(
+            strip(5.0).current_at(volts(12.6)).base(),
+            7.08,
+            max_relative = 1e-12
+        );
     }
 }

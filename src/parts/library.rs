@@ -4,7 +4,6 @@
 
 use std::collections::BTreeMap;
 use std::path::{Path, PathBuf};
-use std::sync::Arc;
 
 use serde_json::Value;
 
@@ -88,7 +87,10 @@ fn parse_part_value(file: &str, value: &Value, source: PartSource) -> Result<Sha
         None => {
             return Err(Error::invalid(
                 Place::json(file, ""),
-                format!("missing `polarity` (the drive kind: {})", drive::kind_names()),
+                format!(
+                    "missing `polarity` (the drive kind: {})",
+                    drive::kind_names()
+                ),
             ))
         }
     };
@@ -102,10 +104,11 @@ fn parse_part_value(file: &str, value: &Value, source: PartSource) -> Result<Sha
         ));
     };
     for key in map.keys() {
-        if let Some(other) = drive::KINDS
-            .iter()
-            .find(|k| k.name != kind.name && k.part_keys.contains(&key.as_str()) && !kind.part_keys.contains(&key.as_str()))
-        {
+        if let Some(other) = drive::KINDS.iter().find(|k| {
+            k.name != kind.name
+                && k.part_keys.contains(&key.as_str())
+                && !kind.part_keys.contains(&key.as_str())
+        }) {
             return Err(Error::Json {
                 place: Place::json(file, key.clone()),
                 message: format!(
@@ -297,7 +300,9 @@ pub fn check_files(paths: &[PathBuf]) -> (Vec<(PathBuf, SharedSwitch)>, Vec<Erro
         match check_file(p) {
             Ok(part) => {
                 let id = part.info().id.to_lowercase();
-                if let Some((first, _)) = parts.iter().find(|(_, q)| q.info().id.to_lowercase() == id) {
+                if let Some((first, _)) =
+                    parts.iter().find(|(_, q)| q.info().id.to_lowercase() == id)
+                {
                     errors.push(Error::DuplicatePart {
                         id: part.info().id.clone(),
                         first: first.display().to_string(),
@@ -311,11 +316,6 @@ pub fn check_files(paths: &[PathBuf]) -> (Vec<(PathBuf, SharedSwitch)>, Vec<Erro
         }
     }
     (parts, errors)
-}
-
-/// Shared by tests of the drive kinds: a shipped part.
-pub fn shipped(id: &str) -> Option<SharedSwitch> {
-    Library::builtin().ok()?.get(id).map(Arc::clone)
 }
 
 #[cfg(test)]
@@ -353,10 +353,22 @@ mod tests {
     fn ids_match_in_any_case_and_unknown_ones_get_the_nearest() {
         let lib = Library::builtin().expect("shipped parts are valid");
         assert!(lib.get("2n3904").is_some() && lib.get("tip120").is_some());
-        let err = lib.require("2N3094", "--part").expect_err("unknown").to_string();
-        assert!(err.contains("unknown part `2N3094`; did you mean 2N3904"), "{err}");
-        let err = lib.require("zzzzzzzzzzzz", "--part").expect_err("unknown").to_string();
-        assert!(err.contains("known parts:") && err.contains("demo-npn-40v"), "{err}");
+        let err = lib
+            .require("2N3094", "--part")
+            .expect_err("unknown")
+            .to_string();
+        assert!(
+            err.contains("unknown part `2N3094`; did you mean 2N3904"),
+            "{err}"
+        );
+        let err = lib
+            .require("zzzzzzzzzzzz", "--part")
+            .expect_err("unknown")
+            .to_string();
+        assert!(
+            err.contains("known parts:") && err.contains("demo-npn-40v"),
+            "{err}"
+        );
         assert_eq!(edit_distance("kitten", "sitting"), 3);
     }
 }

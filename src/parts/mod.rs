@@ -99,7 +99,11 @@ impl PartCheck<'_> {
                         self.at(&format!("{name}[{i}].{key}")),
                         format!(
                             "points must be sorted by increasing {}: {} follows {}",
-                            if key.ends_with("_v") { "voltage" } else { "current" },
+                            if key.ends_with("_v") {
+                                "voltage"
+                            } else {
+                                "current"
+                            },
                             show_number(v),
                             show_number(p)
                         ),

@@ -15,10 +15,11 @@ pub mod wrap;
 pub use json::JsonRenderer;
 pub use markdown::MarkdownRenderer;
 pub use model::{
-    sig, ClampReport, Conditions, Report, ResistorReport, StageReport, WorstCaseReport,
+    num, sig, ChangeReport, CheckReport, ClampReport, ConditionsReport, FigureReport, FixReport,
+    NeedReport, RemedyReport, ResistorReport, Short, StageReport, Worsened, YieldReport,
     GENERAL_CAUTION, MODEL_VERSION,
 };
-pub use stream::{render_report, write_report, Head, Renderer, SummaryRow, Tail};
+pub use stream::{render_report, write_report, Head, Renderer, Report, SummaryRow, Tail};
 pub use table::TableRenderer;
 pub use wrap::output_width;
 

@@ -278,7 +278,10 @@ pub struct StageReport {
 impl StageReport {
     /// A worst-case figure by key.
     pub fn figure(&self, key: &str) -> Option<f64> {
-        self.worst_case.iter().find(|f| f.key == key).and_then(|f| f.value)
+        self.worst_case
+            .iter()
+            .find(|f| f.key == key)
+            .and_then(|f| f.value)
     }
 
     /// The worst check: the highest status, the first in report order among equals.

@@ -1,9 +1,9 @@
 //! The shared document builder: turns the head, each stage and the tail of a report into headings, tables and lists that the
 //! table and Markdown renderers both draw. Numbers are formatted here, once.
 
-use super::model::StageReport;
+use super::model::{StageReport, YieldReport};
 use super::stream::{Head, SummaryRow, Tail};
-use crate::analysis::Status;
+use crate::check::Status;
 use crate::quantity::format_engineering as fe;
 
 /// A table cell: text, and a status when the cell shows one (for colour).
@@ -106,23 +106,29 @@ pub fn head_blocks(head: &Head) -> Vec<Block> {
     out
 }
 
+/// The heading of the assumptions list: what the provenance marks mean.
+pub const ASSUMPTIONS_HEADING: &str = "Assumptions (defaults taken; marks: [std] a published standard, [text] textbook physics, [practice] common practice of the trade, [memory] a typical value recalled, to be verified)";
+
 /// The blocks after the stages: verdict, assumptions, cautions.
 pub fn tail_blocks(tail: &Tail) -> Vec<Block> {
     let (p, m, f) = tail.counts;
-    let mut out = vec![Block::Verdict(
-        format!(
-            "Board verdict: {} ({p} pass, {m} marginal, {f} fail)",
-            tail.verdict.as_str().to_uppercase()
-        ),
-        tail.verdict,
-    )];
+    let mut out = Vec::new();
+    if tail.shown > 1 || tail.counts.0 + tail.counts.1 + tail.counts.2 > 1 {
+        out.push(Block::Verdict(
+            format!(
+                "Board verdict: {} ({p} pass, {m} marginal, {f} fail)",
+                tail.verdict.as_str().to_uppercase()
+            ),
+            tail.verdict,
+        ));
+    }
     if !tail.assumptions.is_empty() {
         let items = tail
             .assumptions
             .iter()
             .map(|(text, names)| format!("{text} ({})", stage_list(names, tail.shown)))
             .collect();
-        out.push(Block::List("Assumptions".to_string(), items));
+        out.push(Block::List(ASSUMPTIONS_HEADING.to_string(), items));
     }
     out.push(Block::List("Cautions".to_string(), tail.cautions.clone()));
     out
@@ -146,17 +152,29 @@ fn stage_list(names: &[String], shown: usize) -> String {
     text
 }
 
+/// A header shared by the rows, or both names when the rows differ (`RB / RG`).
+fn shared(rows: &[SummaryRow], pick: impl Fn(&SummaryRow) -> &'static str) -> String {
+    let mut names: Vec<&'static str> = Vec::new();
+    for r in rows {
+        let n = pick(r);
+        if !names.contains(&n) {
+            names.push(n);
+        }
+    }
+    names.join(" / ")
+}
+
 fn summary(rows: &[SummaryRow]) -> Block {
     Block::Table {
         headers: vec![
             "Stage".into(),
             "Load".into(),
             "Part".into(),
-            "RB".into(),
-            "Overdrive".into(),
+            shared(rows, |r| r.series_symbol),
+            shared(rows, |r| r.margin.1),
             "Tj max [°C]".into(),
             "Verdict".into(),
-            "First finding".into(),
+            "Worst finding".into(),
         ],
         rows: rows
             .iter()
@@ -167,18 +185,14 @@ fn summary(rows: &[SummaryRow]) -> Block {
                     Cell::from(s.part.clone()),
                     Cell::from(format!(
                         "{}{}",
-                        crate::quantity::format_rkm(s.base_resistor_ohms),
-                        if s.base_resistor_sized {
-                            " (sized)"
-                        } else {
-                            ""
-                        }
+                        crate::quantity::format_rkm(s.series_ohms),
+                        if s.series_sized { " (sized)" } else { "" }
                     )),
-                    Cell::from(plain(s.overdrive_min, 3)),
-                    Cell::from(plain(Some(s.junction_max_c), 4)),
+                    Cell::from(plain(s.margin_value, 3)),
+                    Cell::from(plain(s.junction_max_c, 4)),
                     status_cell(s.verdict),
                     Cell::from(
-                        s.first_problem
+                        s.worst_finding
                             .map(|(id, st)| format!("{id} {st}"))
                             .unwrap_or_else(|| "-".to_string()),
                     ),
@@ -213,9 +227,12 @@ fn stage_into(out: &mut Vec<Block>, s: &StageReport) {
             path.clone(),
         ));
     }
+    if let Some(note) = &s.plot_note {
+        out.push(Block::Line(format!("No picture: {note}.")));
+    }
     let c = &s.conditions;
     out.push(Block::Line(format!(
-        "Supply {} ±{}, logic high {} (min {}), pin limit {}, ambient {} .. {} °C, overdrive {}",
+        "Supply {} ±{}, logic high {} (min {}), pin limit {}, ambient {} .. {} °C{}",
         fe(c.supply_v, "V"),
         pct(c.supply_tolerance),
         fe(c.logic_high_v, "V"),
@@ -223,7 +240,10 @@ fn stage_into(out: &mut Vec<Block>, s: &StageReport) {
         fe(c.pin_limit_a, "A"),
         plain(Some(c.ambient_c[0]), 4),
         plain(Some(c.ambient_c[1]), 4),
-        plain(Some(c.overdrive), 3),
+        match c.overdrive {
+            Some(k) => format!(", overdrive {}", plain(Some(k), 3)),
+            None => String::new(),
+        }
     )));
     out.push(Block::Table {
         headers: vec![
@@ -240,11 +260,7 @@ fn stage_into(out: &mut Vec<Block>, s: &StageReport) {
             .iter()
             .map(|r| {
                 vec![
-                    Cell::from(match r.role {
-                        crate::analysis::Role::Base => "RB base",
-                        crate::analysis::Role::PullDown => "RBE pull-down",
-                        crate::analysis::Role::Led => "RL LED",
-                    }),
+                    Cell::from(format!("{} {}", r.symbol, r.role)),
                     Cell::from(fe(r.ohms, "Ω")),
                     Cell::from(r.code.clone()),
                     Cell::from(if r.sized { "sized" } else { "given" }),
@@ -252,7 +268,11 @@ fn stage_into(out: &mut Vec<Block>, s: &StageReport) {
                     Cell::from(format!(
                         "{} ({})",
                         plain(Some(r.rating_w), 3),
-                        r.rating_source.as_str()
+                        match r.rating_source {
+                            crate::analysis::RatingSource::Given => "given",
+                            crate::analysis::RatingSource::Assumed => "assumed",
+                            crate::analysis::RatingSource::Proposed => "proposed",
+                        }
                     )),
                     Cell::from(plain(r.recommended_rating_w, 3)),
                 ]
@@ -264,14 +284,14 @@ fn stage_into(out: &mut Vec<Block>, s: &StageReport) {
             "Clamp fitted: {}{}. A clamp diode needs reverse rating >= {} and current rating >= {}",
             cl.fitted,
             cl.clamp_v
-                .map(|v| format!(" (holds the collector {} above the supply)", fe(v, "V")))
+                .map(|v| format!(" (holds the switch {} above the supply)", fe(v, "V")))
                 .unwrap_or_default(),
             fe(cl.reverse_min_v, "V"),
             fe(cl.current_min_a, "A"),
         );
         if let (Some(e), Some(t)) = (cl.stored_energy_j, cl.decay_time_constant_s) {
             line.push_str(&format!(
-                "; the coil stores {} and decays with L/R = {}",
+                "; the winding stores {} and decays with L/R = {}",
                 fe(e, "J"),
                 fe(t, "s")
             ));
@@ -279,30 +299,19 @@ fn stage_into(out: &mut Vec<Block>, s: &StageReport) {
         line.push('.');
         out.push(Block::Line(line));
     }
-    let w = &s.worst_case;
+    let shown: Vec<_> = s.worst_case.iter().filter(|f| f.header.is_some()).collect();
     out.push(Block::Table {
-        headers: vec![
-            "IC max [mA]".into(),
-            "IB min [mA]".into(),
-            "hFE min".into(),
-            "Overdrive".into(),
-            "Forced beta".into(),
-            "Pin max [mA]".into(),
-            "P max [mW]".into(),
-            "Tj max [°C]".into(),
-            "VC peak [V]".into(),
-        ],
-        rows: vec![vec![
-            Cell::from(scaled(Some(w.collector_current_max_a), 1e3)),
-            Cell::from(scaled(Some(w.base_current_min_a), 1e3)),
-            Cell::from(plain(Some(w.gain_min), 3)),
-            Cell::from(plain(w.overdrive_min, 3)),
-            Cell::from(plain(w.forced_beta_max, 3)),
-            Cell::from(scaled(Some(w.pin_current_max_a), 1e3)),
-            Cell::from(scaled(Some(w.power_max_w), 1e3)),
-            Cell::from(plain(Some(w.junction_max_c), 4)),
-            Cell::from(plain(w.collector_peak_v, 3)),
-        ]],
+        headers: shown
+            .iter()
+            .map(|f| f.header.unwrap_or_default().to_string())
+            .collect(),
+        rows: vec![shown
+            .iter()
+            .map(|f| {
+                let digits = if f.key.ends_with("_c") { 4 } else { 3 };
+                Cell::from(plain(f.value.map(|v| v * f.scale), digits))
+            })
+            .collect()],
     });
     out.push(Block::Table {
         headers: vec![
@@ -326,25 +335,79 @@ fn stage_into(out: &mut Vec<Block>, s: &StageReport) {
             })
             .collect(),
     });
-    if let Some(y) = &s.yield_mc {
-        yield_blocks(out, y);
+    match &s.yield_mc {
+        Some(YieldReport::Modelled(y)) => yield_blocks(out, y),
+        Some(YieldReport::NotModelled { drive }) => out.push(Block::Line(format!(
+            "Yield: not modelled for {drive} stages yet; the worst case above stands alone."
+        ))),
+        None => {}
     }
     if !s.fixes.is_empty() {
-        let items = s
+        let mut items: Vec<String> = s
             .fixes
             .iter()
             .map(|f| {
                 let mut text = format!("{}: {}", f.check, f.action);
                 if let Some(st) = f.recheck {
-                    text.push_str(&format!(" (re-checked: {st})"));
-                }
-                for c in &f.conflicts {
-                    text.push_str(&format!("; conflict: {c}"));
+                    text.push_str(&format!(" (after the change: {st})"));
                 }
                 text
             })
             .collect();
+        if let Some(r) = &s.remedy {
+            if !r.changes.is_empty() {
+                let changes: Vec<String> = r
+                    .changes
+                    .iter()
+                    .map(|c| {
+                        format!(
+                            "{} {} -> {}",
+                            c.field,
+                            c.from
+                                .as_ref()
+                                .map(show_value)
+                                .unwrap_or_else(|| "(none)".into()),
+                            show_value(&c.to)
+                        )
+                    })
+                    .collect();
+                items.push(format!("the change, all at once: {}", changes.join("; ")));
+            }
+            match r.verdict_after {
+                Some(v) => {
+                    let mut text = format!("re-checked with the change: {}", v.as_str().to_uppercase());
+                    if !r.still_short.is_empty() {
+                        let short: Vec<String> = r
+                            .still_short
+                            .iter()
+                            .map(|x| format!("{} {}", x.check, x.status))
+                            .collect();
+                        text.push_str(&format!("; still short: {}", short.join(", ")));
+                    }
+                    for w in &r.worsened {
+                        text.push_str(&format!("; {} goes from {} to {}", w.check, w.from, w.to));
+                    }
+                    items.push(text);
+                }
+                None => items.push(
+                    "no board field can fix this stage: it needs another part or circuit (see above)"
+                        .to_string(),
+                ),
+            }
+            for n in &r.needs {
+                items.push(format!("{}: {}", n.check, n.text));
+            }
+        }
         out.push(Block::List(format!("Fixes, {}", s.name), items));
+    }
+}
+
+/// A board field's value as a user reads it.
+fn show_value(v: &serde_json::Value) -> String {
+    match v {
+        serde_json::Value::Null => "none".to_string(),
+        serde_json::Value::Number(n) => n.to_string(),
+        other => other.to_string(),
     }
 }
 

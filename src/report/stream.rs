@@ -6,8 +6,8 @@ use std::io::Write;
 
 use serde::Serialize;
 
-use super::model::{Report, StageReport, GENERAL_CAUTION};
-use crate::analysis::{CheckId, Status};
+use super::model::{StageReport, GENERAL_CAUTION};
+use crate::check::{CheckId, Status};
 
 /// One line of the board summary.
 #[derive(Clone, Debug, PartialEq, Serialize)]
@@ -18,20 +18,26 @@ pub struct SummaryRow {
     pub name: String,
     /// Load kind.
     pub load_kind: &'static str,
+    /// Drive kind.
+    pub drive: &'static str,
     /// Part id.
     pub part: String,
-    /// RB.
-    pub base_resistor_ohms: f64,
-    /// RB was sized.
-    pub base_resistor_sized: bool,
-    /// Worst-case overdrive.
-    pub overdrive_min: Option<f64>,
+    /// The series resistor's symbol (`RB`, `RG`).
+    pub series_symbol: &'static str,
+    /// Its value.
+    pub series_ohms: f64,
+    /// It was sized.
+    pub series_sized: bool,
+    /// The figure that says how hard the switch is driven: (key, header).
+    pub margin: (&'static str, &'static str),
+    /// Its value.
+    pub margin_value: Option<f64>,
     /// Highest junction temperature.
-    pub junction_max_c: f64,
+    pub junction_max_c: Option<f64>,
     /// Stage verdict.
     pub verdict: Status,
-    /// The first check that is not a pass.
-    pub first_problem: Option<(CheckId, Status)>,
+    /// The worst check that is not a pass.
+    pub worst_finding: Option<(CheckId, Status)>,
 }
 
 impl SummaryRow {
@@ -41,15 +47,27 @@ impl SummaryRow {
             index: s.index,
             name: s.name.clone(),
             load_kind: s.load_kind,
+            drive: s.drive,
             part: s.part.clone(),
-            base_resistor_ohms: s.base_resistor_ohms,
-            base_resistor_sized: s.base_resistor_sized,
-            overdrive_min: s.worst_case.overdrive_min,
-            junction_max_c: s.worst_case.junction_max_c,
+            series_symbol: s.series_symbol,
+            series_ohms: s.series_ohms,
+            series_sized: s.series_sized,
+            margin: s.margin,
+            margin_value: s.figure(s.margin.0),
+            junction_max_c: s.figure("junction_max_c"),
             verdict: s.verdict,
-            first_problem: s.first_problem().map(|f| (f.id, f.status)),
+            worst_finding: s.worst_finding().map(|f| (f.id, f.status)),
         }
     }
+}
+
+/// A whole report held in memory: one board (or one stage from flags).
+#[derive(Clone, Debug)]
+pub struct Report {
+    /// The board's name, when given.
+    pub board: Option<String>,
+    /// Every stage, in input order.
+    pub stages: Vec<StageReport>,
 }
 
 /// What comes before the stages.
@@ -139,31 +157,52 @@ pub trait Renderer {
     fn wants_summary(&self) -> bool;
 }
 
-/// Stream a report: `summary` gives the summary rows of the shown stages (called only when the
-/// renderer draws one), `stages` yields every stage report in order, `show` picks those drawn.
+/// Stream a report: `stages` yields every stage report in order (each analysed once), `show`
+/// picks those drawn. A renderer that draws a summary first gets it gathered from the same pass:
+/// the drawn stages go to a spool file meanwhile, so memory stays bounded by the summary rows.
 /// Returns the tail (its verdict counts every stage).
 pub fn write_report<W: Write + ?Sized>(
     out: &mut W,
     renderer: &mut dyn Renderer,
     board: Option<String>,
-    summary: impl FnOnce() -> Vec<SummaryRow>,
     stages: impl Iterator<Item = StageReport>,
     show: impl Fn(&StageReport) -> bool,
 ) -> std::io::Result<Tail> {
-    let summary = if renderer.wants_summary() {
-        summary()
-    } else {
-        Vec::new()
-    };
-    out.write_all(renderer.head(&Head { board, summary }).as_bytes())?;
     let mut tail = TailBuilder::new();
+    if !renderer.wants_summary() {
+        out.write_all(
+            renderer
+                .head(&Head {
+                    board,
+                    summary: Vec::new(),
+                })
+                .as_bytes(),
+        )?;
+        for s in stages {
+            tail.count(&s);
+            if show(&s) {
+                tail.show(&s);
+                out.write_all(renderer.stage(&s).as_bytes())?;
+            }
+        }
+        let tail = tail.finish();
+        out.write_all(renderer.tail(&tail).as_bytes())?;
+        return Ok(tail);
+    }
+    let mut summary = Vec::new();
+    let mut spool = std::io::BufWriter::new(tempfile::tempfile()?);
     for s in stages {
         tail.count(&s);
         if show(&s) {
             tail.show(&s);
-            out.write_all(renderer.stage(&s).as_bytes())?;
+            summary.push(SummaryRow::of(&s));
+            spool.write_all(renderer.stage(&s).as_bytes())?;
         }
     }
+    out.write_all(renderer.head(&Head { board, summary }).as_bytes())?;
+    let mut file = spool.into_inner().map_err(|e| e.into_error())?;
+    std::io::Seek::seek(&mut file, std::io::SeekFrom::Start(0))?;
+    std::io::copy(&mut file, out)?;
     let tail = tail.finish();
     out.write_all(renderer.tail(&tail).as_bytes())?;
     Ok(tail)
@@ -176,7 +215,6 @@ pub fn render_report(report: &Report, renderer: &mut dyn Renderer) -> String {
         &mut out,
         renderer,
         report.board.clone(),
-        || report.stages.iter().map(SummaryRow::of).collect(),
         report.stages.iter().cloned(),
         |_| true,
     );

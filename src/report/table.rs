@@ -12,7 +12,7 @@ use super::model::StageReport;
 use super::rows::{head_blocks, stage_blocks, tail_blocks, Block, Cell};
 use super::stream::{Head, Renderer, Tail};
 use super::wrap::{display_width, wrap};
-use crate::analysis::Status;
+use crate::check::Status;
 
 /// Renders a report as text tables.
 #[derive(Clone, Copy, Debug, Default)]

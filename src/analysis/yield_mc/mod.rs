@@ -2,7 +2,6 @@
 
 use serde::Serialize;
 
-
 /// How many builds to draw, and from which seed.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub struct YieldOptions {
@@ -71,3 +70,16 @@ pub struct YieldResult {
     /// Builds whose overdrive fell below the worst-case corner's. 0 unless the part's curves break
     /// the conditions the corner rests on (see the `model` module); then the corner is not a true
     /// worst case for this part.
+    pub below_corner_builds: u64,
+}
+
+/// The yield of an analysed stage, or `None` when its drive kind has no yield model.
+pub fn run(
+    stage: &crate::stage::Stage,
+    _analysis: &super::Analysis,
+    _opts: &YieldOptions,
+    _progress: &(dyn Fn(u64, u64) + Sync),
+) -> Option<YieldResult> {
+    let _ = stage;
+    None
+}

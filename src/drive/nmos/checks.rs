@@ -60,7 +60,14 @@ pub fn stays_off(c: &Conditions, w: &NmosWorst) -> Finding {
     let edge = w.th_min_hot.base();
     let half = edge / 2.0;
     match w.leakage_voltage {
-        None => Finding::new(STAYS_OFF, Status::Marginal, None, Some(half), "V", why(StaysOff::Floats)),
+        None => Finding::new(
+            STAYS_OFF,
+            Status::Marginal,
+            None,
+            Some(half),
+            "V",
+            why(StaysOff::Floats),
+        ),
         Some(v) => {
             let v = v.base();
             let status = Status::at_most(v, half, edge);
@@ -92,7 +99,11 @@ pub fn gate_voltage(part: &NmosPart, c: &Conditions) -> Finding {
         Some(voh),
         Some(GATE_DERATING * rating),
         "V",
-        why(GateVoltage { status, voh, rating }),
+        why(GateVoltage {
+            status,
+            voh,
+            rating,
+        }),
     )
 }
 

@@ -5,7 +5,9 @@
 use super::part::{NmosPart, RdsOnPoint};
 use crate::conditions::{Conditions, PullDown};
 use crate::drive::Corner;
-use crate::quantity::{amps, celsius, ohms, volts, watts, Base, Current, Power, Resistance, Temperature, Voltage};
+use crate::quantity::{
+    amps, celsius, ohms, volts, watts, Base, Current, Power, Resistance, Temperature, Voltage,
+};
 
 /// Reference temperature of the part's figures, C.
 pub const T_REF_C: f64 = 25.0;
@@ -113,7 +115,12 @@ impl NmosPart {
     }
 
     /// VGS,min with these resistors.
-    pub fn gate_voltage_min(&self, c: &Conditions, rg: Resistance, rgs: Option<Resistance>) -> Voltage {
+    pub fn gate_voltage_min(
+        &self,
+        c: &Conditions,
+        rg: Resistance,
+        rgs: Option<Resistance>,
+    ) -> Voltage {
         match rgs {
             Some(r) => {
                 let low = c.low(r);
@@ -174,7 +181,13 @@ impl NmosPart {
 
     /// Von,max at a drain current with these resistors (what the load checks take): from the
     /// settled junction, or under runaway ID x RDS(on)(25 C) x (1 + a (Tj,max - 25)).
-    pub fn on_voltage_for_loads(&self, c: &Conditions, rg: Resistance, rgs: Option<Resistance>, id: Current) -> Voltage {
+    pub fn on_voltage_for_loads(
+        &self,
+        c: &Conditions,
+        rg: Resistance,
+        rgs: Option<Resistance>,
+        id: Current,
+    ) -> Voltage {
         let vgs_min = self.gate_voltage_min(c, rg, rgs);
         let (point, _) = self.point_for(self.gate_voltage_eff(c, vgs_min));
         match self.junction(c, id, point.ohms) {
@@ -186,7 +199,13 @@ impl NmosPart {
 
 impl NmosWorst {
     /// Evaluate the part with these resistors at the load corner.
-    pub fn of(part: &NmosPart, c: &Conditions, load: &Corner, rg: Resistance, rgs: Option<Resistance>) -> NmosWorst {
+    pub fn of(
+        part: &NmosPart,
+        c: &Conditions,
+        load: &Corner,
+        rg: Resistance,
+        rgs: Option<Resistance>,
+    ) -> NmosWorst {
         let id = amps(load.current_max.base().max(0.0));
         let vgs_min = part.gate_voltage_min(c, rg, rgs);
         let vgs_eff = part.gate_voltage_eff(c, vgs_min);
@@ -313,7 +332,10 @@ mod tests {
         }
         // 3 A in 0.07 ohm at 250 K/W: a P25 R = 0.006 x 0.63 x 250 = 0.945 < 1, settles hot;
         // 4 A: 0.006 x 1.12 x 250 = 1.68 > 1, runaway.
-        assert!(matches!(p.junction(&c, amps(4.0), ohms(0.07)), Junction::Runaway));
+        assert!(matches!(
+            p.junction(&c, amps(4.0), ohms(0.07)),
+            Junction::Runaway
+        ));
     }
 
     #[test]
@@ -322,7 +344,11 @@ mod tests {
         let c = conditions();
         // RGS 47k, RG 470: VGS,min = 2.9 x 44650 / (493.5 + 44650) = 2.868 V.
         let v = p.gate_voltage_min(&c, ohms(470.0), Some(ohms(47_000.0)));
-        assert_relative_eq!(v.base(), 2.9 * 44_650.0 / (493.5 + 44_650.0), max_relative = 1e-12);
+        assert_relative_eq!(
+            v.base(),
+            2.9 * 44_650.0 / (493.5 + 44_650.0),
+            max_relative = 1e-12
+        );
         // -5 mV/K: the threshold rises 0.225 V from 25 C to -20 C; VGS,eff = 2.643 V picks the
         // 2.5 V point.
         let eff = p.gate_voltage_eff(&c, v);

@@ -69,7 +69,12 @@ struct NmosOn<'a> {
 }
 
 impl NmosOn<'_> {
-    fn resistors(&self) -> (crate::quantity::Resistance, Option<crate::quantity::Resistance>) {
+    fn resistors(
+        &self,
+    ) -> (
+        crate::quantity::Resistance,
+        Option<crate::quantity::Resistance>,
+    ) {
         let rg = self.c.inputs.series.unwrap_or_else(|| size_gate(self.c));
         (rg, pull_down_for(self.c, rg))
     }
@@ -124,21 +129,43 @@ impl Switch for NmosPart {
             ("VGS max".into(), fe(self.vgs_max.base(), "V")),
             (
                 "VGS(th) (25 °C)".into(),
-                format!("{} .. {}", fe(self.vgs_th_min.base(), "V"), fe(self.vgs_th_max.base(), "V")),
+                format!(
+                    "{} .. {}",
+                    fe(self.vgs_th_min.base(), "V"),
+                    fe(self.vgs_th_max.base(), "V")
+                ),
             ),
-            ("Tj max".into(), format!("{} °C", n(self.info.tj_max.base()))),
-            ("RthJA".into(), format!("{} K/W", n(self.info.r_th_ja.base()))),
+            (
+                "Tj max".into(),
+                format!("{} °C", n(self.info.tj_max.base())),
+            ),
+            (
+                "RthJA".into(),
+                format!("{} K/W", n(self.info.r_th_ja.base())),
+            ),
             (
                 "RDS(on) temperature coefficient".into(),
-                format!("{} per K{}", n(self.rds_tempco), assumed(self.rds_tempco_assumed)),
+                format!(
+                    "{} per K{}",
+                    n(self.rds_tempco),
+                    assumed(self.rds_tempco_assumed)
+                ),
             ),
             (
                 "VGS(th) temperature coefficient".into(),
-                format!("{} mV/K{}", n(self.th_tempco * 1e3), assumed(self.th_tempco_assumed)),
+                format!(
+                    "{} mV/K{}",
+                    n(self.th_tempco * 1e3),
+                    assumed(self.th_tempco_assumed)
+                ),
             ),
             (
                 "IGSS max".into(),
-                format!("{}{}", fe(self.igss.base(), "A"), assumed(self.igss_assumed)),
+                format!(
+                    "{}{}",
+                    fe(self.igss.base(), "A"),
+                    assumed(self.igss_assumed)
+                ),
             ),
         ];
         for p in &self.rds_on {
@@ -148,7 +175,8 @@ impl Switch for NmosPart {
                     "{} at VGS {}{}",
                     fe(p.ohms.base(), "Ω"),
                     fe(p.vgs.base(), "V"),
-                    p.id.map(|i| format!(", ID {}", fe(i.base(), "A"))).unwrap_or_default()
+                    p.id.map(|i| format!(", ID {}", fe(i.base(), "A")))
+                        .unwrap_or_default()
                 ),
             ));
         }
@@ -185,7 +213,9 @@ impl Switch for NmosPart {
             ));
         }
         if self.igss_assumed {
-            out.push(format!("part {id}: gate leakage IGSS 100 nA assumed [memory]"));
+            out.push(format!(
+                "part {id}: gate leakage IGSS 100 nA assumed [memory]"
+            ));
         }
         out
     }
@@ -208,21 +238,61 @@ impl Switch for NmosPart {
         ];
         let v = |x: Voltage| Some(x.base());
         let figures = vec![
-            Figure::new("drain_current_max_a", Some(w.id_max.base()), Some("ID max [mA]"), 1e3),
+            Figure::new(
+                "drain_current_max_a",
+                Some(w.id_max.base()),
+                Some("ID max [mA]"),
+                1e3,
+            ),
             Figure::new("gate_voltage_min_v", v(w.vgs_min), Some("VGS min [V]"), 1.0),
-            Figure::new("rds_on_max_ohms", w.rds_max.map(|r| r.base()), Some("RDS(on) max [mΩ]"), 1e3),
-            Figure::new("on_voltage_max_v", w.von_max.map(|x| x.base()), Some("Von max [mV]"), 1e3),
-            Figure::new("pin_current_max_a", Some(w.pin_current_max.base()), Some("Pin max [mA]"), 1e3),
-            Figure::new("power_max_w", w.power_max.map(|p| p.base()), Some("P max [mW]"), 1e3),
-            Figure::new("junction_max_c", w.junction_max.map(|t| t.base()), Some("Tj max [°C]"), 1.0),
-            Figure::new("drain_peak_v", load.peak.map(|p| p.base()), Some("VD peak [V]"), 1.0),
+            Figure::new(
+                "rds_on_max_ohms",
+                w.rds_max.map(|r| r.base()),
+                Some("RDS(on) max [mΩ]"),
+                1e3,
+            ),
+            Figure::new(
+                "on_voltage_max_v",
+                w.von_max.map(|x| x.base()),
+                Some("Von max [mV]"),
+                1e3,
+            ),
+            Figure::new(
+                "pin_current_max_a",
+                Some(w.pin_current_max.base()),
+                Some("Pin max [mA]"),
+                1e3,
+            ),
+            Figure::new(
+                "power_max_w",
+                w.power_max.map(|p| p.base()),
+                Some("P max [mW]"),
+                1e3,
+            ),
+            Figure::new(
+                "junction_max_c",
+                w.junction_max.map(|t| t.base()),
+                Some("Tj max [°C]"),
+                1.0,
+            ),
+            Figure::new(
+                "drain_peak_v",
+                load.peak.map(|p| p.base()),
+                Some("VD peak [V]"),
+                1.0,
+            ),
             Figure::new("supply_max_v", v(load.vcc_max), None, 1.0),
             Figure::new("supply_min_v", v(load.vcc_min), None, 1.0),
             Figure::new("gate_voltage_eff_v", v(w.vgs_eff), None, 1.0),
             Figure::new("vgs_th_max_cold_v", v(w.th_max_cold), None, 1.0),
             Figure::new("vgs_th_min_hot_v", v(w.th_min_hot), None, 1.0),
             Figure::new("rds_on_25c_ohms", Some(w.point.ohms.base()), None, 1.0),
-            Figure::new("leakage_voltage_v", w.leakage_voltage.map(|x| x.base()), None, 1.0),
+            Figure::new(
+                "leakage_voltage_v",
+                w.leakage_voltage.map(|x| x.base()),
+                None,
+                1.0,
+            ),
         ];
         DriveAnalysis {
             series: rg,

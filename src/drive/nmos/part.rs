@@ -7,7 +7,9 @@ use serde_json::Value;
 use crate::error::{from_value, Error, Result};
 use crate::parts::{PartCheck, PartInfo, PartSource};
 use crate::quantity::limits::{show_number, AMPS, KELVIN_PER_WATT, LEAKAGE_AMPS, OHMS, VOLTS};
-use crate::quantity::{amps, celsius, kelvin_per_watt, ohms, volts, Base, Current, Resistance, Voltage};
+use crate::quantity::{
+    amps, celsius, kelvin_per_watt, ohms, volts, Base, Current, Resistance, Voltage,
+};
 
 /// RDS(on) temperature coefficient when a part gives none, per K [memory: RDS(on) typically
 /// grows 1.5 to 2 times from 25 to 150 C].
@@ -184,9 +186,16 @@ impl NmosPart {
         let tj_max = c.tj_max(rec.tj_max_c)?;
         let rth = c.within("r_th_ja_k_per_w", rec.r_th_ja_k_per_w, KELVIN_PER_WATT)?;
         if rec.rds_on_max.is_empty() {
-            return Err(Error::invalid(c.at("rds_on_max"), "needs at least one point"));
+            return Err(Error::invalid(
+                c.at("rds_on_max"),
+                "needs at least one point",
+            ));
         }
-        c.sorted("rds_on_max", "vgs_v", rec.rds_on_max.iter().map(|p| p.vgs_v))?;
+        c.sorted(
+            "rds_on_max",
+            "vgs_v",
+            rec.rds_on_max.iter().map(|p| p.vgs_v),
+        )?;
         let mut rds_on: Vec<RdsOnPoint> = Vec::new();
         for (i, p) in rec.rds_on_max.iter().enumerate() {
             let path = |k: &str| format!("rds_on_max[{i}].{k}");

@@ -23,23 +23,45 @@ pub mod class {
 }
 
 /// The on-state picture; `Err` when the load draws nothing.
-pub fn picture(part: &NmosPart, c: &Conditions, load: &Corner, a: &DriveAnalysis) -> Result<Picture, String> {
+pub fn picture(
+    part: &NmosPart,
+    c: &Conditions,
+    load: &Corner,
+    a: &DriveAnalysis,
+) -> Result<Picture, String> {
     let d = detail(a).ok_or("not an nmos analysis")?;
     let w = &d.worst;
     let id = w.id_max.base();
     let vcc = load.vcc_max.base();
     if !(id > 0.0 && id.is_finite() && vcc > 0.0) {
-        return Err("the load draws no current at the worst-case corner; there is no on-state to draw".into());
+        return Err(
+            "the load draws no current at the worst-case corner; there is no on-state to draw"
+                .into(),
+        );
     }
-    let rds_cold = part.rds_at(w.point.ohms, c.ambient_min).base().max(w.point.ohms.base() * 0.1);
-    let rds_hot = w.rds_max.unwrap_or_else(|| part.rds_at(w.point.ohms, part.info.tj_max)).base();
+    let rds_cold = part
+        .rds_at(w.point.ohms, c.ambient_min)
+        .base()
+        .max(w.point.ohms.base() * 0.1);
+    let rds_hot = w
+        .rds_max
+        .unwrap_or_else(|| part.rds_at(w.point.ohms, part.info.tj_max))
+        .base();
     let von = w.von_for_loads.base();
     let panel = |x_max: f64, caption: String, zoom: bool| {
         let y_max = 1.6 * id * 1e3;
         let mut p = Panel::new(
             caption,
-            Axis { title: "VDS [V]".into(), min: 0.0, max: x_max },
-            Axis { title: "ID [mA]".into(), min: 0.0, max: y_max },
+            Axis {
+                title: "VDS [V]".into(),
+                min: 0.0,
+                max: x_max,
+            },
+            Axis {
+                title: "ID [mA]".into(),
+                min: 0.0,
+                max: y_max,
+            },
         );
         let line = |r: f64| {
             let x_end = x_max.min(y_max / 1e3 * r);
@@ -47,7 +69,10 @@ pub fn picture(part: &NmosPart, c: &Conditions, load: &Corner, a: &DriveAnalysis
         };
         p.curves.push(Curve {
             class: class::RDS_COLD,
-            label: Some(format!("RDS(on) {} at the coldest ambient", fe(rds_cold, "Ω"))),
+            label: Some(format!(
+                "RDS(on) {} at the coldest ambient",
+                fe(rds_cold, "Ω")
+            )),
             points: line(rds_cold),
             style: Style::Nominal,
         });
@@ -74,7 +99,8 @@ pub fn picture(part: &NmosPart, c: &Conditions, load: &Corner, a: &DriveAnalysis
             });
         }
         if !w.pinned && !zoom {
-            p.notes.push("the gate drive is too low: the channel may sit in its linear region".into());
+            p.notes
+                .push("the gate drive is too low: the channel may sit in its linear region".into());
         }
         if zoom {
             p.extra_class = Some(class::ZOOM);

@@ -24,7 +24,11 @@ pub fn remedies(
         return Vec::new();
     };
     let w = &d.worst;
-    let short = |id| findings.iter().find(|f| f.id == id && f.status != Status::Pass);
+    let short = |id| {
+        findings
+            .iter()
+            .find(|f| f.id == id && f.status != Status::Pass)
+    };
     let mut out = Vec::new();
     if short(PIN_CURRENT).is_some() && c.inputs.series.is_some() {
         out.push(Proposal::edit(
@@ -55,11 +59,16 @@ pub fn remedies(
         let weakest = c.logic_high_min.base();
         // A divider that takes the drive below the lowest specified point while the pin alone
         // would reach it: a larger pull-down, within the leakage limit.
-        let larger = w.rgs.filter(|_| weakest > target && w.vgs_min.base() < target).and_then(|_| {
-            let needed = target * c.high(w.rg).base() / (weakest - target) / (1.0 - c.resistor_tolerance);
-            let r = c.series.at_or_above(ohms(needed));
-            (r.base() <= leak_limit).then_some(r)
-        });
+        let larger = w
+            .rgs
+            .filter(|_| weakest > target && w.vgs_min.base() < target)
+            .and_then(|_| {
+                let needed = target * c.high(w.rg).base()
+                    / (weakest - target)
+                    / (1.0 - c.resistor_tolerance);
+                let r = c.series.at_or_above(ohms(needed));
+                (r.base() <= leak_limit).then_some(r)
+            });
         match larger {
             Some(r) => out.push(Proposal::edit(
                 PINNED_LOW,

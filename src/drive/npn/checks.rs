@@ -139,7 +139,11 @@ impl PinnedLow {
             Some(g) => format!("a part with minimum gain {g:.0} at {} (25 °C, for a part with this one's VBE(sat))", fe(self.ic, "A")),
             None => "a part with more gain".to_string(),
         };
-        let pair = if self.darlington { "" } else { ", a Darlington pair" };
+        let pair = if self.darlington {
+            ""
+        } else {
+            ", a Darlington pair"
+        };
         format!(
             "; the pin's limit allows RB down to {} only; what would carry it: {gain}{pair}, a logic-level MOSFET, or a buffer",
             format_rkm(b.rb_pin)

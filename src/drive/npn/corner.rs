@@ -4,7 +4,9 @@
 use super::part::NpnPart;
 use crate::conditions::{Conditions, PullDown};
 use crate::drive::Corner;
-use crate::quantity::{amps, ohms, volts, watts, Base, Current, Power, Resistance, Temperature, Voltage};
+use crate::quantity::{
+    amps, ohms, volts, watts, Base, Current, Power, Resistance, Temperature, Voltage,
+};
 
 /// Reference temperature of datasheet figures, C.
 pub const T_REF_C: f64 = 25.0;
@@ -86,7 +88,12 @@ impl NpnCorner {
 
     /// IB,min at Ta,min: (VOH,min - VBE(sat),max) / RB+ minus VBE(sat),max / RBE-. May be zero or
     /// negative: the stage cannot turn on.
-    pub fn base_current_min(&self, c: &Conditions, rb: Resistance, rbe: Option<Resistance>) -> Current {
+    pub fn base_current_min(
+        &self,
+        c: &Conditions,
+        rb: Resistance,
+        rbe: Option<Resistance>,
+    ) -> Current {
         let through_rb = (c.logic_high_min - self.vbe_max_cold) / c.high(rb);
         let stolen = match rbe {
             Some(r) => self.vbe_max_cold / c.low(r),
@@ -360,17 +367,33 @@ mod tests {
         let k = corner(0.05, 20.0, 0.95);
         assert_eq!(k.overdrive(amps(-1e-3)), None);
         assert_eq!(corner(0.0, 20.0, 0.95).overdrive(amps(1e-3)), None);
-        assert_relative_eq!(k.overdrive(amps(5e-3)).unwrap_or(0.0), 2.0, max_relative = 1e-12);
+        assert_relative_eq!(
+            k.overdrive(amps(5e-3)).unwrap_or(0.0),
+            2.0,
+            max_relative = 1e-12
+        );
     }
 
     #[test]
     fn temperature_models() {
         // Gummel-Poon XTB = 1.5 (typical silicon, from memory): at -40 C the factor is
         // (233.15 / 298.15)^1.5 = 0.6915.
-        assert_relative_eq!(gain_factor(celsius(-40.0), 1.5), 0.6915, max_relative = 1e-3);
+        assert_relative_eq!(
+            gain_factor(celsius(-40.0), 1.5),
+            0.6915,
+            max_relative = 1e-3
+        );
         // Cutoff edge about 0.5 V at 25 C (common practice), 0.38 V at 85 C at -2 mV/K.
-        assert_relative_eq!(turn_on_edge(celsius(85.0)).base(), 0.38, max_relative = 1e-12);
+        assert_relative_eq!(
+            turn_on_edge(celsius(85.0)).base(),
+            0.38,
+            max_relative = 1e-12
+        );
         // Common practice: ICBO doubles every 10 K; 50 nA at 25 C is 3.2 uA at 85 C (2^6).
-        assert_relative_eq!(icbo_at(amps(50e-9), celsius(85.0)).base(), 3.2e-6, max_relative = 1e-12);
+        assert_relative_eq!(
+            icbo_at(amps(50e-9), celsius(85.0)).base(),
+            3.2e-6,
+            max_relative = 1e-12
+        );
     }
 }

@@ -89,12 +89,18 @@ impl OnVoltage for NpnOn<'_> {
 impl NpnPart {
     /// The minimum gain at IC,max and 25 C a part with this one's VBE(sat) would need for the
     /// overdrive at RB,pin.
-    fn gain_needed(&self, c: &Conditions, corner: &NpnCorner, rb_pin: crate::quantity::Resistance) -> Option<f64> {
-        let ib = corner.base_current_min(c, rb_pin, pull_down_for(c, rb_pin)).base();
+    fn gain_needed(
+        &self,
+        c: &Conditions,
+        corner: &NpnCorner,
+        rb_pin: crate::quantity::Resistance,
+    ) -> Option<f64> {
+        let ib = corner
+            .base_current_min(c, rb_pin, pull_down_for(c, rb_pin))
+            .base();
         let ic = corner.ic_max.base();
-        (ib > 0.0 && ic > 0.0).then(|| {
-            c.overdrive * ic / ib / gain_factor(c.ambient_min, self.gain_temp_exponent)
-        })
+        (ib > 0.0 && ic > 0.0)
+            .then(|| c.overdrive * ic / ib / gain_factor(c.ambient_min, self.gain_temp_exponent))
     }
 }
 
@@ -135,11 +141,21 @@ impl Switch for NpnPart {
             ),
             ("VCEO".into(), fe(self.vceo.base(), "V")),
             ("IC max".into(), fe(self.ic_max.base(), "A")),
-            ("Tj max".into(), format!("{} °C", trim(self.info.tj_max.base()))),
-            ("RthJA".into(), format!("{} K/W", trim(self.info.r_th_ja.base()))),
+            (
+                "Tj max".into(),
+                format!("{} °C", trim(self.info.tj_max.base())),
+            ),
+            (
+                "RthJA".into(),
+                format!("{} K/W", trim(self.info.r_th_ja.base())),
+            ),
             (
                 "ICBO max (25 °C)".into(),
-                format!("{}{}", fe(self.icbo_max.base(), "A"), assumed(self.icbo_assumed)),
+                format!(
+                    "{}{}",
+                    fe(self.icbo_max.base(), "A"),
+                    assumed(self.icbo_assumed)
+                ),
             ),
             (
                 "gain temperature exponent".into(),
@@ -154,10 +170,16 @@ impl Switch for NpnPart {
             rows.push(("internal base-emitter resistor".into(), fe(r.base(), "Ω")));
         }
         for (ic, hfe) in &self.gain_min {
-            rows.push(("hFE min".into(), format!("{} at {}", trim(*hfe), fe(*ic, "A"))));
+            rows.push((
+                "hFE min".into(),
+                format!("{} at {}", trim(*hfe), fe(*ic, "A")),
+            ));
         }
         for (ic, hfe) in self.gain_max.iter().flatten() {
-            rows.push(("hFE max".into(), format!("{} at {}", trim(*hfe), fe(*ic, "A"))));
+            rows.push((
+                "hFE max".into(),
+                format!("{} at {}", trim(*hfe), fe(*ic, "A")),
+            ));
         }
         for v in &self.vce_sat_max {
             rows.push((
@@ -190,7 +212,13 @@ impl Switch for NpnPart {
             .gain_min
             .iter()
             .max_by(|a, b| a.1.total_cmp(&b.1))
-            .map(|(ic, hfe)| format!("hFE >= {} at {}", crate::quantity::limits::show_number(*hfe), fe(*ic, "A")))
+            .map(|(ic, hfe)| {
+                format!(
+                    "hFE >= {} at {}",
+                    crate::quantity::limits::show_number(*hfe),
+                    fe(*ic, "A")
+                )
+            })
             .unwrap_or_default();
         if self.is_darlington() {
             format!("{best} (Darlington pair)")
@@ -236,7 +264,9 @@ impl Switch for NpnPart {
         };
         let rbe = pull_down_for(c, rb);
         let w = NpnWorst::of(self, c, load, corner, rb, rbe);
-        let rb_pin = sizing.map(|s| s.rb_pin).unwrap_or_else(|| pin_limited(c, &corner));
+        let rb_pin = sizing
+            .map(|s| s.rb_pin)
+            .unwrap_or_else(|| pin_limited(c, &corner));
         let gain_needed = self.gain_needed(c, &corner, rb_pin);
         let findings = vec![
             pinned_low(self, c, &w, sizing.as_ref(), gain_needed),
@@ -244,21 +274,56 @@ impl Switch for NpnPart {
         ];
         let v = |x: Voltage| Some(x.base());
         let figures = vec![
-            Figure::new("collector_current_max_a", Some(corner.ic_max.base()), Some("IC max [mA]"), 1e3),
-            Figure::new("base_current_min_a", Some(w.base_current_min.base()), Some("IB min [mA]"), 1e3),
+            Figure::new(
+                "collector_current_max_a",
+                Some(corner.ic_max.base()),
+                Some("IC max [mA]"),
+                1e3,
+            ),
+            Figure::new(
+                "base_current_min_a",
+                Some(w.base_current_min.base()),
+                Some("IB min [mA]"),
+                1e3,
+            ),
             Figure::new("gain_min", Some(corner.gain_wc), Some("hFE min"), 1.0),
             Figure::new("overdrive_min", w.overdrive, Some("Overdrive"), 1.0),
             Figure::new("forced_beta_max", w.forced_beta, Some("Forced beta"), 1.0),
-            Figure::new("pin_current_max_a", Some(w.pin_current_max.base()), Some("Pin max [mA]"), 1e3),
-            Figure::new("power_max_w", Some(w.power_max.base()), Some("P max [mW]"), 1e3),
-            Figure::new("junction_max_c", Some(w.junction_max.base()), Some("Tj max [°C]"), 1.0),
-            Figure::new("collector_peak_v", load.peak.map(|p| p.base()), Some("VC peak [V]"), 1.0),
+            Figure::new(
+                "pin_current_max_a",
+                Some(w.pin_current_max.base()),
+                Some("Pin max [mA]"),
+                1e3,
+            ),
+            Figure::new(
+                "power_max_w",
+                Some(w.power_max.base()),
+                Some("P max [mW]"),
+                1e3,
+            ),
+            Figure::new(
+                "junction_max_c",
+                Some(w.junction_max.base()),
+                Some("Tj max [°C]"),
+                1.0,
+            ),
+            Figure::new(
+                "collector_peak_v",
+                load.peak.map(|p| p.base()),
+                Some("VC peak [V]"),
+                1.0,
+            ),
             Figure::new("supply_max_v", v(load.vcc_max), None, 1.0),
             Figure::new("supply_min_v", v(load.vcc_min), None, 1.0),
             Figure::new("vbe_sat_max_v", v(corner.vbe_max_cold), None, 1.0),
             Figure::new("vbe_sat_min_v", v(corner.vbe_min_hot), None, 1.0),
             Figure::new("vce_sat_max_v", v(corner.vce_sat_max), None, 1.0),
-            Figure::new("leakage_voltage_v", w.leakage_voltage.map(|x| x.base()), None, 1.0),
+            Figure::new(
+                "leakage_voltage_v",
+                w.leakage_voltage.map(|x| x.base()),
+                None,
+                1.0,
+            ),
             Figure::new("turn_on_edge_v", v(w.edge_hot), None, 1.0),
         ];
         DriveAnalysis {

@@ -234,8 +234,8 @@ impl NpnPart {
             None => None,
         };
         if let Some(max) = &gain_max {
-            // Where either curve gives a point, the maximum curve must not run below the
-            // minimum one.
+            // At the points of the maximum curve, and at the minimum curve's points within its
+            // span, the maximum must not run below the minimum.
             for (i, &(ic, _)) in max.iter().enumerate() {
                 if gain(max, ic) < gain(&gain_min, ic) {
                     return Err(Error::invalid(
@@ -249,8 +249,13 @@ impl NpnPart {
                     ));
                 }
             }
+            // Within the span of the maximum points (outside it the maximum is not stated).
+            let (lo, hi) = (
+                max.first().map(|p| p.0).unwrap_or(0.0),
+                max.last().map(|p| p.0).unwrap_or(0.0),
+            );
             for (i, &(ic, _)) in gain_min.iter().enumerate() {
-                if gain(max, ic) < gain(&gain_min, ic) {
+                if (lo..=hi).contains(&ic) && gain(max, ic) < gain(&gain_min, ic) {
                     return Err(Error::invalid(
                         c.at(&format!("gain_min[{i}].hfe")),
                         format!(
@@ -279,7 +284,10 @@ impl NpnPart {
             None => default_xtb,
         };
         if rec.vce_sat_max.is_empty() {
-            return Err(Error::invalid(c.at("vce_sat_max"), "needs at least one point"));
+            return Err(Error::invalid(
+                c.at("vce_sat_max"),
+                "needs at least one point",
+            ));
         }
         let vce_bound = VCE_SAT_SANE_MAX_V.min(vceo);
         let mut vce_sat_max = Vec::new();
@@ -307,7 +315,11 @@ impl NpnPart {
                 v: volts(v),
             });
         }
-        c.sorted("vce_sat_max", "ic_a", rec.vce_sat_max.iter().map(|p| p.ic_a))?;
+        c.sorted(
+            "vce_sat_max",
+            "ic_a",
+            rec.vce_sat_max.iter().map(|p| p.ic_a),
+        )?;
         if rec.vbe_sat.is_empty() {
             return Err(Error::invalid(c.at("vbe_sat"), "needs at least one point"));
         }
@@ -425,8 +437,16 @@ impl NpnPart {
     /// VBE(sat) (minimum, maximum) at `ic` and 25 C: linear in IC between points, held at the
     /// end values outside them (stage-model 5).
     pub fn vbe_sat_at(&self, ic: Current) -> (Voltage, Voltage) {
-        let lo: Vec<(f64, f64)> = self.vbe_sat.iter().map(|p| (p.ic.base(), p.min.base())).collect();
-        let hi: Vec<(f64, f64)> = self.vbe_sat.iter().map(|p| (p.ic.base(), p.max.base())).collect();
+        let lo: Vec<(f64, f64)> = self
+            .vbe_sat
+            .iter()
+            .map(|p| (p.ic.base(), p.min.base()))
+            .collect();
+        let hi: Vec<(f64, f64)> = self
+            .vbe_sat
+            .iter()
+            .map(|p| (p.ic.base(), p.max.base()))
+            .collect();
         (volts(held(&lo, ic.base())), volts(held(&hi, ic.base())))
     }
 }
@@ -487,11 +507,27 @@ mod tests {
     #[test]
     fn physically_impossible_parts_are_refused() {
         for (from, to, needle) in [
-            (r#""v": 0.2"#, r#""v": 9000"#, "vce_sat_max[0].v: 9000 is not allowed"),
-            (r#""ib_a": 0.001, "v""#, r#""ib_a": 0.02, "v""#, "vce_sat_max[0].ib_a"),
+            (
+                r#""v": 0.2"#,
+                r#""v": 9000"#,
+                "vce_sat_max[0].v: 9000 is not allowed",
+            ),
+            (
+                r#""ib_a": 0.001, "v""#,
+                r#""ib_a": 0.02, "v""#,
+                "vce_sat_max[0].ib_a",
+            ),
             (r#""hfe": 300"#, r#""hfe": 50"#, "gain_max[0].hfe"),
-            (r#""max_v": 0.85"#, r#""max_v": 45"#, "vbe_sat[0].max_v: 45 is not allowed"),
-            (r#""id": "x""#, "\"id\": \"x\\u001b[2J\"", "control character U+001B"),
+            (
+                r#""max_v": 0.85"#,
+                r#""max_v": 45"#,
+                "vbe_sat[0].max_v: 45 is not allowed",
+            ),
+            (
+                r#""id": "x""#,
+                "\"id\": \"x\\u001b[2J\"",
+                "control character U+001B",
+            ),
         ] {
             let err = read(&GOOD.replace(from, to)).expect_err(needle).to_string();
             assert!(err.contains(needle), "{needle}: {err}");
@@ -502,6 +538,9 @@ mod tests {
     fn positional_points_are_refused() {
         let text = GOOD.replace(r#"[{"ic_a": 0.01, "hfe": 100}]"#, "[[0.01, 100]]");
         let err = read(&text).expect_err("positional").to_string();
-        assert!(err.contains("gain_min[0]: a point is written as an object"), "{err}");
+        assert!(
+            err.contains("gain_min[0]: a point is written as an object"),
+            "{err}"
+        );
     }
 }

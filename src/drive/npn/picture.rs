@@ -28,8 +28,6 @@ pub const KNEE_FRACTION: f64 = 0.9;
 pub const DATASHEET_FORCED_BETA: f64 = 10.0;
 /// Datasheet reference temperature, C [practice].
 pub const NOMINAL_AMBIENT_C: f64 = 25.0;
-/// Temperature steps of the overdrive panel.
-pub const SWEEP_POINTS: usize = 61;
 /// Zoom panel width in knees.
 const ZOOM_KNEES: f64 = 4.0;
 /// Narrowest zoom panel, V.
@@ -102,17 +100,29 @@ pub struct OutputView {
 }
 
 /// The output view of a stage; `Err` when the load draws no current (nothing to draw).
-pub fn output_view(part: &NpnPart, c: &Conditions, load: &Corner, w: &NpnWorst) -> Result<OutputView, String> {
+pub fn output_view(
+    part: &NpnPart,
+    c: &Conditions,
+    load: &Corner,
+    w: &NpnWorst,
+) -> Result<OutputView, String> {
     let corner = &w.corner;
     let ic_max = corner.ic_max.base();
     let vcc_max = load.vcc_max.base();
     if !(ic_max.is_finite() && ic_max > 0.0 && vcc_max > 0.0) {
-        return Err("the load draws no current at the worst-case corner; there is no output curve to draw".into());
+        return Err(
+            "the load draws no current at the worst-case corner; there is no output curve to draw"
+                .into(),
+        );
     }
     let r_load = vcc_max / ic_max;
     let (vbe_min25, vbe_max25) = part.vbe_sat_at(corner.ic_max);
     let (vbe_min25, vbe_max25) = (vbe_min25.base(), vbe_max25.base());
-    let offset = if part.is_darlington() { 0.5 * vbe_max25 } else { 0.0 };
+    let offset = if part.is_darlington() {
+        0.5 * vbe_max25
+    } else {
+        0.0
+    };
     let beta_nom = part.gain_min_at(corner.ic_max);
     let forced = DATASHEET_FORCED_BETA.min(0.5 * beta_nom);
     let model_nominal = EbersMoll::with_vbe_at(
@@ -174,7 +184,13 @@ pub fn output_view(part: &NpnPart, c: &Conditions, load: &Corner, w: &NpnWorst) 
 }
 
 /// Where the model settles with base current `ib` on the load line from `vcc` through `r_load`.
-fn point_at(model: &EbersMoll, ib: f64, vcc: f64, r_load: f64, offset: f64) -> Option<OperatingPoint> {
+fn point_at(
+    model: &EbersMoll,
+    ib: f64,
+    vcc: f64,
+    r_load: f64,
+    offset: f64,
+) -> Option<OperatingPoint> {
     if ib <= 0.0 {
         return None;
     }
@@ -197,7 +213,13 @@ fn point_at(model: &EbersMoll, ib: f64, vcc: f64, r_load: f64, offset: f64) -> O
 }
 
 /// Points of the curve at `ib` for 0 <= VCE <= `x_max`, IC in mA, denser near the knee.
-fn curve_points(view: &OutputView, m: &EbersMoll, ib: f64, x_max: f64, y_max: f64) -> Vec<(f64, f64)> {
+fn curve_points(
+    view: &OutputView,
+    m: &EbersMoll,
+    ib: f64,
+    x_max: f64,
+    y_max: f64,
+) -> Vec<(f64, f64)> {
     let ic = |v: f64| m.collector_current(ib, (v - view.offset).max(0.0));
     let lo = if ic(view.offset) >= 0.0 {
         view.offset
@@ -279,13 +301,19 @@ fn output_panel(
     }
     p.curves.push(Curve {
         class: class::LOAD_LINE,
-        label: Some(format!("load line, nominal supply {}", fe(view.vcc_nominal, "V"))),
+        label: Some(format!(
+            "load line, nominal supply {}",
+            fe(view.vcc_nominal, "V")
+        )),
         points: load_line(view.vcc_nominal, view.vcc_nominal / view.r_load, x_max),
         style: Style::Load,
     });
     p.curves.push(Curve {
         class: class::LOAD_LINE_WORST,
-        label: Some(format!("load line, highest supply {}", fe(view.vcc_max, "V"))),
+        label: Some(format!(
+            "load line, highest supply {}",
+            fe(view.vcc_max, "V")
+        )),
         points: load_line(view.vcc_max, ic_max, x_max),
         style: Style::LoadWorst,
     });
@@ -309,7 +337,8 @@ fn output_panel(
         });
     }
     if view.worst.is_none() {
-        p.notes.push("worst case: the stage cannot turn on (no base current)".into());
+        p.notes
+            .push("worst case: the stage cannot turn on (no base current)".into());
     }
     if part.is_darlington() {
         p.notes.push(format!(
@@ -322,7 +351,12 @@ fn output_panel(
 
 /// Worst-case overdrive at each (ambient C, IC,max there) of `currents`, RB and RBE fixed:
 /// stage-model 4's formulas with Ta,min moved to each temperature. Below 0 (cannot turn on) is 0.
-fn overdrive_sweep(part: &NpnPart, c: &Conditions, w: &NpnWorst, currents: &[(f64, f64)]) -> Vec<(f64, f64)> {
+fn overdrive_sweep(
+    part: &NpnPart,
+    c: &Conditions,
+    w: &NpnWorst,
+    currents: &[(f64, f64)],
+) -> Vec<(f64, f64)> {
     currents
         .iter()
         .filter_map(|&(t, ic)| {
@@ -396,7 +430,8 @@ fn overdrive_panel(c: &Conditions, w: &NpnWorst, sweep: &[(f64, f64)]) -> Panel 
         });
     }
     if sweep.iter().any(|q| q.1 <= 0.0) {
-        p.notes.push("overdrive 0: the stage cannot turn on there".into());
+        p.notes
+            .push("overdrive 0: the stage cannot turn on there".into());
     }
     p
 }
@@ -426,7 +461,14 @@ pub fn picture(
         format!("output curves ({})", part.info.id),
     );
     let x_zoom = (ZOOM_KNEES * view.knee).max(ZOOM_MIN_V).min(x_max);
-    let mut zoom = output_panel(part, c, &view, ic_max, (x_zoom, y_max), "zoom on the saturation knee".into());
+    let mut zoom = output_panel(
+        part,
+        c,
+        &view,
+        ic_max,
+        (x_zoom, y_max),
+        "zoom on the saturation knee".into(),
+    );
     zoom.extra_class = Some(class::ZOOM);
     zoom.notes.clear();
     let sweep = overdrive_sweep(part, c, w, currents);

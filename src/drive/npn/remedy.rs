@@ -61,7 +61,11 @@ pub fn remedies(
     // RB needs a new value when the drive falls short, the pin is overloaded, or a new pull-down
     // would take the overdrive below its target with the RB fitted now.
     let new_pull_down_starves = pull_down != c.inputs.pull_down && {
-        let ib = corner.base_current_min(&sized_conditions, a.series, super::corner::pull_down_for(&sized_conditions, a.series));
+        let ib = corner.base_current_min(
+            &sized_conditions,
+            a.series,
+            super::corner::pull_down_for(&sized_conditions, a.series),
+        );
         !corner.meets(ib, c.overdrive)
     };
     let resize = (pinned_short.is_some() || short(PIN_CURRENT).is_some() || new_pull_down_starves)

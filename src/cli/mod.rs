@@ -1,5 +1,9 @@
 //! The command line: clap derive structs and value enums, no logic.
 
+mod load_flags;
+
+pub use load_flags::{unique_fields, LoadFlags};
+
 use std::path::PathBuf;
 
 use clap::{Args, Parser, Subcommand, ValueEnum};
@@ -175,19 +179,6 @@ pub enum ColorArg {
     Never,
 }
 
-/// Load kinds on the command line.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
-pub enum LoadArg {
-    /// A fixed current (--current).
-    Current,
-    /// A relay coil (--coil, ...).
-    Relay,
-    /// LEDs in series (--led-count, --led-vf, --current, ...).
-    Led,
-    /// A constant-voltage LED strip segment (--strip-...).
-    Strip,
-}
-
 /// Clamp kinds on the command line.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
 pub enum ClampArg {
@@ -231,8 +222,6 @@ value_parser_fn!(volts, ValueKind::Voltage);
 value_parser_fn!(amps, ValueKind::Current);
 value_parser_fn!(ohms, ValueKind::Resistance);
 value_parser_fn!(watts, ValueKind::Power);
-value_parser_fn!(henries, ValueKind::Inductance);
-value_parser_fn!(metres, ValueKind::Length);
 value_parser_fn!(fraction, ValueKind::Fraction);
 value_parser_fn!(number, ValueKind::Plain);
 
@@ -274,54 +263,12 @@ pub struct StageArgs {
     /// Temperature grade instead of --ambient.
     #[arg(long, value_enum, help_heading = "Stage")]
     pub grade: Option<GradeArg>,
-    /// The load kind.
-    #[arg(long, value_enum, help_heading = "Load")]
-    pub load: Option<LoadArg>,
-    /// Load current (current load) or LED target current (led load), e.g. 150mA.
-    #[arg(long, value_name = "AMPS", value_parser = amps, allow_hyphen_values = true, help_heading = "Load")]
-    pub current: Option<f64>,
-    /// Relay coil resistance at 20 °C, e.g. 400 or 400R.
-    #[arg(long, value_name = "OHMS", value_parser = ohms, allow_hyphen_values = true, help_heading = "Load")]
-    pub coil: Option<f64>,
-    /// Coil resistance tolerance [default: 10 %].
-    #[arg(long, value_name = "FRACTION", value_parser = fraction, allow_hyphen_values = true, help_heading = "Load")]
-    pub coil_tolerance: Option<f64>,
-    /// Rated coil voltage [default: the supply].
-    #[arg(long, value_name = "VOLTS", value_parser = volts, allow_hyphen_values = true, help_heading = "Load")]
-    pub coil_rated: Option<f64>,
-    /// Must-operate voltage as a fraction of rated [default: 0.75].
-    #[arg(long, value_name = "FRACTION", value_parser = fraction, allow_hyphen_values = true, help_heading = "Load")]
-    pub must_operate: Option<f64>,
-    /// Coil inductance, e.g. 200mH.
-    #[arg(long, value_name = "HENRIES", value_parser = henries, allow_hyphen_values = true, help_heading = "Load")]
-    pub inductance: Option<f64>,
-    /// LEDs in series.
-    #[arg(long, value_name = "N", value_parser = number, allow_hyphen_values = true, help_heading = "Load")]
-    pub led_count: Option<f64>,
-    /// Nominal forward voltage of one LED.
-    #[arg(long, value_name = "VOLTS", value_parser = volts, allow_hyphen_values = true, help_heading = "Load")]
-    pub led_vf: Option<f64>,
-    /// Lowest forward voltage of one LED [default: nominal - 0.2 V].
-    #[arg(long, value_name = "VOLTS", value_parser = volts, allow_hyphen_values = true, help_heading = "Load")]
-    pub led_vf_min: Option<f64>,
-    /// Highest forward voltage of one LED [default: nominal + 0.2 V].
-    #[arg(long, value_name = "VOLTS", value_parser = volts, allow_hyphen_values = true, help_heading = "Load")]
-    pub led_vf_max: Option<f64>,
-    /// Absolute maximum LED current.
-    #[arg(long, value_name = "AMPS", value_parser = amps, allow_hyphen_values = true, help_heading = "Load")]
-    pub led_max_current: Option<f64>,
-    /// Given LED series resistor (sized when absent).
-    #[arg(long, value_name = "OHMS", value_parser = ohms, allow_hyphen_values = true, help_heading = "Load")]
-    pub led_resistor: Option<f64>,
-    /// Rated strip voltage.
-    #[arg(long, value_name = "VOLTS", value_parser = volts, allow_hyphen_values = true, help_heading = "Load")]
-    pub strip_voltage: Option<f64>,
-    /// Strip current per metre at its rated voltage.
-    #[arg(long, value_name = "AMPS", value_parser = amps, allow_hyphen_values = true, help_heading = "Load")]
-    pub strip_current_per_metre: Option<f64>,
-    /// Strip segment length, e.g. 1.5m.
-    #[arg(long, value_name = "METRES", value_parser = metres, allow_hyphen_values = true, help_heading = "Load")]
-    pub strip_length: Option<f64>,
+    /// The load kind; its flags follow under "Load".
+    #[arg(long, value_name = "KIND", value_parser = load_flags::load_kind_parser(), help_heading = "Load")]
+    pub load: Option<String>,
+    /// The load's own flags.
+    #[command(flatten)]
+    pub load_flags: LoadFlags,
     /// Clamp across an inductive load.
     #[arg(long, value_enum, help_heading = "Clamp")]
     pub clamp: Option<ClampArg>,
@@ -337,10 +284,13 @@ pub struct StageArgs {
     /// Clamp diode current rating.
     #[arg(long, value_name = "AMPS", value_parser = amps, allow_hyphen_values = true, help_heading = "Clamp")]
     pub clamp_current: Option<f64>,
-    /// Given base resistor (audit); `size` always sizes it.
-    #[arg(long, value_name = "OHMS", value_parser = ohms, allow_hyphen_values = true, help_heading = "Resistors")]
+    /// Given base resistor of an npn stage (audit); `size` always sizes it.
+    #[arg(long, value_name = "OHMS", value_parser = ohms, allow_hyphen_values = true, conflicts_with = "gate_resistor", help_heading = "Resistors")]
     pub base_resistor: Option<f64>,
-    /// Given pull-down from base to emitter.
+    /// Given gate resistor of an nmos stage (audit); `size` always sizes it.
+    #[arg(long, value_name = "OHMS", value_parser = ohms, allow_hyphen_values = true, help_heading = "Resistors")]
+    pub gate_resistor: Option<f64>,
+    /// Given pull-down from the base (or gate) to ground.
     #[arg(long, value_name = "OHMS", value_parser = ohms, conflicts_with = "no_pull_down", help_heading = "Resistors")]
     pub pull_down: Option<f64>,
     /// No pull-down (when sizing, one of 10 x RB is proposed unless this is given).

@@ -1,0 +1,289 @@
+//! One pass per stage: the engine runs once, the remedy is composed (and re-checked) from that
+//! analysis, the yield and the picture are drawn from it when asked for, and the report value
+//! is built. Renderers then only draw what this gives them.
+
+use serde_json::Map;
+
+use crate::analysis::yield_mc::YieldOptions;
+use crate::analysis::{analyse, compose, Analysis, Remedy};
+use crate::picture::Picture;
+use crate::quantity::{celsius, format_engineering as fe, format_rkm, Base};
+use crate::remedy::{Bound, PartNeed};
+use crate::report::{
+    num, sig, ChangeReport, CheckReport, ClampReport, ConditionsReport, FigureReport, FixReport,
+    NeedReport, RemedyReport, ResistorReport, Short, StageReport, Worsened, YieldReport,
+};
+use crate::stage::Stage;
+
+/// Points of the ambient sweep a picture gets.
+pub const SWEEP_POINTS: usize = 61;
+
+/// What to add to each stage's report.
+#[derive(Clone, Copy, Debug, Default)]
+pub struct Options {
+    /// Draw builds for the yield.
+    pub yield_opts: Option<YieldOptions>,
+    /// Build the picture's data.
+    pub picture: bool,
+}
+
+/// The report of stage `index` (from 1), analysed once.
+pub fn stage_report(
+    index: usize,
+    stage: &Stage,
+    opts: &Options,
+    progress: &(dyn Fn(u64, u64) + Sync),
+) -> StageReport {
+    let a = analyse(stage);
+    let remedy = compose(stage, &a);
+    let mut r = build(index, stage, &a, remedy.as_ref());
+    if let Some(o) = &opts.yield_opts {
+        r.yield_mc = Some(yield_of(stage, &a, o, progress));
+    }
+    if opts.picture {
+        match picture(stage, &a) {
+            Ok(p) => r.picture = Some(p),
+            Err(why) => r.plot_note = Some(why),
+        }
+    }
+    r
+}
+
+/// The yield of a stage: modelled for the drive kinds that have a yield model.
+fn yield_of(
+    stage: &Stage,
+    a: &Analysis,
+    opts: &YieldOptions,
+    progress: &(dyn Fn(u64, u64) + Sync),
+) -> YieldReport {
+    match crate::analysis::yield_mc::run(stage, a, opts, progress) {
+        Some(y) => YieldReport::Modelled(y),
+        None => YieldReport::NotModelled {
+            drive: stage.drive(),
+        },
+    }
+}
+
+/// The picture of a stage from its analysis.
+pub fn picture(stage: &Stage, a: &Analysis) -> Result<Picture, String> {
+    let c = &stage.conditions;
+    let (lo, hi) = (c.ambient_min.base(), c.ambient_max.base());
+    let n = SWEEP_POINTS.max(2);
+    let currents: Vec<(f64, f64)> = (0..n)
+        .map(|i| {
+            let t = lo + (hi - lo) * i as f64 / (n - 1) as f64;
+            let mut ct = c.clone();
+            ct.ambient_min = celsius(t);
+            (
+                t,
+                stage.load.current_max(&ct, a.own_value()).base().max(0.0),
+            )
+        })
+        .collect();
+    stage
+        .switch
+        .picture(c, &a.corner, &a.drive, &currents)
+        .map_err(|e| format!("stage `{}`: {e}", stage.name))
+}
+
+/// The report value of an analysed stage and its remedy.
+pub fn build(index: usize, stage: &Stage, a: &Analysis, remedy: Option<&Remedy>) -> StageReport {
+    let c = &stage.conditions;
+    let kind = stage.switch.kind();
+    let led = a.own.filter(|_| stage.load.own_resistor_key().is_some());
+    StageReport {
+        index,
+        name: stage.name.clone(),
+        verdict: a.verdict,
+        drive: kind.name,
+        part: stage.part_id().to_string(),
+        load_kind: stage.load_kind(),
+        series_keys: (
+            kind.series.key,
+            match kind.name {
+                "npn" => "base_resistor_sized",
+                _ => "gate_resistor_sized",
+            },
+        ),
+        series_symbol: kind.series.symbol,
+        series_ohms: num(a.drive.series.base()),
+        series_sized: a.drive.series_sized,
+        pull_down_ohms: a.drive.pull_down.map(|r| num(r.base())),
+        pull_down_sized: a.drive.pull_down_sized,
+        led_resistor_ohms: led.and_then(|o| o.value).map(|r| num(r.base())),
+        led_resistor_sized: led.is_some_and(|o| o.sized && o.value.is_some()),
+        conditions: ConditionsReport {
+            supply_v: num(c.supply.base()),
+            supply_tolerance: c.supply_tolerance,
+            logic_high_v: num(c.logic_high.base()),
+            logic_high_min_v: num(c.logic_high_min.base()),
+            pin_limit_a: num(c.pin_limit.base()),
+            ambient_c: [num(c.ambient_min.base()), num(c.ambient_max.base())],
+            overdrive: kind
+                .stage_keys
+                .contains(&"overdrive")
+                .then_some(c.overdrive),
+            resistor_tolerance: c.resistor_tolerance,
+            series: c.series.to_string(),
+        },
+        resistors: a
+            .resistors
+            .iter()
+            .map(|r| ResistorReport {
+                role: r.role,
+                symbol: r.symbol,
+                ohms: num(r.value.base()),
+                code: format_rkm(r.value.base()),
+                sized: r.sized,
+                worst_power_w: num(r.worst_power.base()),
+                rating_w: num(r.rating.base()),
+                rating_source: r.rating_source,
+                recommended_rating_w: r.needed_rating.map(|p| num(p.base())),
+            })
+            .collect(),
+        clamp: a.clamp.map(|p| ClampReport {
+            fitted: stage.clamp.kind_name(),
+            clamp_v: stage.clamp.voltage().map(|v| num(v.base())),
+            reverse_min_v: num(p.reverse_min.base()),
+            current_min_a: num(p.current_min.base()),
+            stored_energy_j: p.stored_energy.map(|e| num(e.base())),
+            decay_time_constant_s: p.decay_time_constant.map(|t| num(t.base())),
+        }),
+        worst_case: a
+            .figures
+            .iter()
+            .map(|f| FigureReport {
+                key: f.key,
+                value: f.value.and_then(sig),
+                header: f.header,
+                scale: f.scale,
+            })
+            .collect(),
+        margin: kind.margin,
+        checks: a
+            .findings
+            .iter()
+            .map(|f| CheckReport {
+                id: f.id,
+                status: f.status,
+                value: f.value.and_then(sig),
+                limit: f.limit.and_then(sig),
+                unit: f.unit,
+                detail: f.detail(),
+            })
+            .collect(),
+        assumptions: a.assumptions(stage).cloned().collect(),
+        cautions: a.cautions.iter().map(|c| c.sentence()).collect(),
+        fixes: remedy.map(fixes).unwrap_or_default(),
+        remedy: remedy.map(remedy_report),
+        plot_svg: None,
+        plot_note: None,
+        yield_mc: None,
+        picture: None,
+    }
+}
+
+fn fixes(r: &Remedy) -> Vec<FixReport> {
+    r.proposals
+        .iter()
+        .map(|p| {
+            let apply: Map<String, serde_json::Value> = r
+                .changes
+                .iter()
+                .filter(|c| p.edits.iter().any(|e| e.field() == c.field))
+                .map(|c| (c.field.clone(), c.to.clone()))
+                .collect();
+            let recheck = r.after.as_ref().and_then(|after| {
+                (!p.edits.is_empty())
+                    .then(|| after.analysis.finding(p.check).map(|f| f.status))
+                    .flatten()
+            });
+            FixReport {
+                check: p.check,
+                action: p.why.sentence(),
+                apply,
+                recheck,
+                needs: p.needs.clone(),
+            }
+        })
+        .collect()
+}
+
+fn remedy_report(r: &Remedy) -> RemedyReport {
+    RemedyReport {
+        apply: r.apply(),
+        changes: r
+            .changes
+            .iter()
+            .map(|c| ChangeReport {
+                field: c.field.clone(),
+                from: c.from.clone(),
+                to: c.to.clone(),
+            })
+            .collect(),
+        verdict_after: r.after.as_ref().map(|a| a.analysis.verdict),
+        still_short: r
+            .after
+            .as_ref()
+            .map(|a| {
+                a.short
+                    .iter()
+                    .map(|(check, status)| Short {
+                        check: *check,
+                        status: *status,
+                    })
+                    .collect()
+            })
+            .unwrap_or_default(),
+        worsened: r
+            .after
+            .as_ref()
+            .map(|a| {
+                a.worsened
+                    .iter()
+                    .map(|(check, from, to)| Worsened {
+                        check: *check,
+                        from: *from,
+                        to: *to,
+                    })
+                    .collect()
+            })
+            .unwrap_or_default(),
+        needs: r
+            .after
+            .as_ref()
+            .map(|a| {
+                a.needs
+                    .iter()
+                    .map(|(check, need)| NeedReport {
+                        check: *check,
+                        need: need.clone(),
+                        text: need_text(need),
+                    })
+                    .collect()
+            })
+            .unwrap_or_default(),
+    }
+}
+
+/// A part figure in words: `a part with gain_min hfe >= 247 at 41.5 mA`.
+pub fn need_text(n: &PartNeed) -> String {
+    let bound = match n.bound {
+        Bound::AtLeast => ">=",
+        Bound::AtMost => "<=",
+    };
+    let value = if n.unit.is_empty() {
+        format!("{:.3}", n.value)
+            .trim_end_matches('0')
+            .trim_end_matches('.')
+            .to_string()
+    } else {
+        fe(n.value, n.unit)
+    };
+    let at = match n.at {
+        Some((key, v)) if key.ends_with("_a") => format!(" at {}", fe(v, "A")),
+        Some((_, v)) => format!(" at {}", fe(v, "V")),
+        None => String::new(),
+    };
+    format!("a part would need {} {bound} {value}{at}", n.figure)
+}
