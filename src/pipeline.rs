@@ -266,17 +266,14 @@ fn remedy_report(r: &Remedy) -> RemedyReport {
     }
 }
 
-/// A part figure in words: `a part with gain_min hfe >= 247 at 41.5 mA`.
+/// A part figure in words: `minimum gain (25 °C) >= 247 at 41.5 mA`.
 pub fn need_text(n: &PartNeed) -> String {
     let bound = match n.bound {
         Bound::AtLeast => ">=",
         Bound::AtMost => "<=",
     };
     let value = if n.unit.is_empty() {
-        format!("{:.3}", n.value)
-            .trim_end_matches('0')
-            .trim_end_matches('.')
-            .to_string()
+        crate::report::rows::plain(Some(n.value), 3)
     } else {
         fe(n.value, n.unit)
     };
@@ -285,5 +282,8 @@ pub fn need_text(n: &PartNeed) -> String {
         Some((_, v)) => format!(" at {}", fe(v, "V")),
         None => String::new(),
     };
-    format!("a part would need {} {bound} {value}{at}", n.figure)
+    format!(
+        "{} {bound} {value}{at}",
+        crate::remedy::figure_label(n.figure)
+    )
 }

@@ -43,7 +43,8 @@ pub enum Bound {
 /// One figure a replacement part needs (`minimum gain >= 247 at 41.5 mA, 25 °C`).
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct PartNeed {
-    /// The figure as keyed in part files or in words (`gain_min`, `vceo_max_v`).
+    /// The figure as keyed in part files (`gain_min.hfe`, `vceo_max_v`), or in the load object
+    /// for a figure of the load (`relay.rated_v`).
     pub figure: &'static str,
     /// Which way.
     pub bound: Bound,
@@ -54,6 +55,28 @@ pub struct PartNeed {
     /// The condition it is read at: a current in amperes (`ic_a`, `id_a`) or a voltage in volts
     /// (`vgs_v`), when it has one.
     pub at: Option<(&'static str, f64)>,
+}
+
+/// A figure of a replacement part in words.
+pub fn figure_label(key: &str) -> &'static str {
+    match key {
+        "gain_min.hfe" => "minimum gain (25 °C)",
+        "vbe_sat.max_v" => "VBE(sat) maximum (25 °C)",
+        "ic_max_a" => "rated collector current",
+        "vceo_max_v" => "VCEO",
+        "id_max_a" => "rated drain current",
+        "vds_max_v" => "VDS max",
+        "vgs_max_v" => "VGS max",
+        "vgs_th.max_v" => "VGS(th) maximum (25 °C)",
+        "rds_on_max.vgs_v" => "RDS(on) specified at a gate voltage of",
+        "rds_on_max.id_a" => "RDS(on) test current",
+        "r_th_ja_k_per_w" => "RthJA",
+        "tj_max_c" => "Tj max",
+        "relay.rated_v" => "a relay coil rated",
+        "relay.must_operate_v" => "a relay whose must-operate voltage at 20 °C is",
+        "strip.rated_v" => "a strip rated",
+        _ => "figure",
+    }
 }
 
 /// A remedy one check proposes.

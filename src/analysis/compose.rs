@@ -69,6 +69,7 @@ impl Remedy {
 pub fn proposals(stage: &Stage, a: &Analysis) -> Vec<Proposal> {
     let c = &stage.conditions;
     let mut out = stage.switch.remedies(c, &a.corner, &a.drive, &a.findings);
+    let on = stage.switch.on_voltage(c);
     let ctx = crate::load::LoadContext {
         conditions: c,
         vcc_max: a.corner.vcc_max,
@@ -76,6 +77,7 @@ pub fn proposals(stage: &Stage, a: &Analysis) -> Vec<Proposal> {
         current_max: a.corner.current_max,
         on_voltage_max: a.drive.on_voltage_max,
         own: a.own,
+        on: on.as_ref(),
     };
     for f in a.findings.iter().filter(|f| f.status != Status::Pass) {
         out.extend(stage.load.remedy(f, &ctx));

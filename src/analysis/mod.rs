@@ -151,6 +151,7 @@ pub fn analyse(stage: &Stage) -> Analysis {
         current_max,
         on_voltage_max: drive.on_voltage_max,
         own,
+        on: on.as_ref(),
     };
     let mut findings = drive.findings.clone();
     findings.push(common::pin_current(c, &drive));

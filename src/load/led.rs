@@ -306,21 +306,20 @@ impl Load for Led {
         }
         let c = ctx.conditions;
         let reason = self.reason(ctx);
-        match reason.case {
-            // A resistor of the window exists when sizing finds one: size it.
-            LedCase::Low | LedCase::Over if self.resistor.is_some() => Some(Proposal::edit(
-                LED_CURRENT,
-                vec![Edit::Size("load.resistor_ohms")],
-                why(LedFix::Resize {
-                    series: c.series.name(),
-                }),
-            )),
-            LedCase::WindowEmpty | LedCase::Over | LedCase::Low => Some(Proposal::part(
-                LED_CURRENT,
-                Vec::new(),
-                why(LedFix::ConstantCurrent),
-            )),
-            LedCase::NoHeadroom | LedCase::DarkAtLowCorner => Some(Proposal::part(
+        // What sizing the resistor again would give: a value inside the window, a value that
+        // lets too much through at the high corner (the window is empty), or none at all.
+        let resized = Led {
+            resistor: None,
+            ..self.clone()
+        }
+        .size(c, ctx.on)
+        .and_then(|o| o.value);
+        let inside = resized.is_some_and(|rl| {
+            let cur = self.currents(c, rl, ctx.on.at_corner(self.current_max_with(c, rl)));
+            cur.max <= self.ceiling && cur.min.base() >= LED_PASS_FRACTION * self.current.base()
+        });
+        let headroom = || {
+            Proposal::part(
                 LED_CURRENT,
                 Vec::new(),
                 why(LedFix::Headroom {
@@ -330,8 +329,23 @@ impl Load for Led {
                         .max(0.0),
                     count: self.count,
                 }),
-            )),
+            )
+        };
+        match reason.case {
             LedCase::Fine => None,
+            _ if inside && self.resistor.is_some() => Some(Proposal::edit(
+                LED_CURRENT,
+                vec![Edit::Size("load.resistor_ohms")],
+                why(LedFix::Resize {
+                    series: c.series.name(),
+                }),
+            )),
+            _ if resized.is_some() => Some(Proposal::part(
+                LED_CURRENT,
+                Vec::new(),
+                why(LedFix::ConstantCurrent),
+            )),
+            _ => Some(headroom()),
         }
     }
 
@@ -518,6 +532,7 @@ mod tests {
     use crate::eseries::Series;
     use crate::quantity::celsius;
 
+    #[derive(Debug)]
     struct Fixed(f64);
     impl OnVoltage for Fixed {
         fn at_25c(&self, _i: Current) -> Voltage {
@@ -590,6 +605,7 @@ mod tests {
             current_max: l.current_max(&c, own.value),
             on_voltage_max: volts(0.1),
             own: Some(own),
+            on: &Fixed(0.1),
         };
         let f = l.led_current(&ctx);
         assert_eq!(f.status, Status::Fail);

@@ -8,11 +8,11 @@
 //! `&NAME::KIND` to [`KINDS`]. Nothing else names load kinds.
 
 mod clamp;
-mod current;
-mod led;
-mod motor;
-mod relay;
-mod strip;
+pub mod current;
+pub mod led;
+pub mod motor;
+pub mod relay;
+pub mod strip;
 
 pub use clamp::{Clamp, ClampProposal, CLAMP_REVERSE_MARGIN};
 pub use led::Led;
@@ -140,7 +140,7 @@ pub struct Kick {
 }
 
 /// The on-voltage of the switch the load is in series with, as the drive gives it.
-pub trait OnVoltage {
+pub trait OnVoltage: fmt::Debug {
     /// At `current` and 25 C (the LED sizing's figure, stage-model 6.1).
     fn at_25c(&self, current: Current) -> Voltage;
     /// The worst-case on-voltage when the load corner draws `current_max` (VCE(sat),max at
@@ -174,6 +174,8 @@ pub struct LoadContext<'a> {
     pub on_voltage_max: Voltage,
     /// The load's own resistor, when it has one.
     pub own: Option<OwnResistor>,
+    /// The switch's on-voltage, for a remedy that sizes the load's own resistor again.
+    pub on: &'a dyn OnVoltage,
 }
 
 /// How a load's current follows the drawn inputs of one build (the yield's draws): a small

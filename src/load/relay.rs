@@ -233,7 +233,7 @@ impl Load for Relay {
             return Some(Proposal::part(
                 COIL_VOLTAGE,
                 vec![PartNeed {
-                    figure: "rated coil voltage",
+                    figure: "relay.rated_v",
                     bound: Bound::AtLeast,
                     value: rated_min,
                     unit: "V",
@@ -251,7 +251,7 @@ impl Load for Relay {
             return Some(Proposal::part(
                 COIL_PULL_IN,
                 vec![PartNeed {
-                    figure: "must-operate voltage at 20 °C",
+                    figure: "relay.must_operate_v",
                     bound: Bound::AtMost,
                     value: available / warm,
                     unit: "V",
@@ -382,6 +382,17 @@ mod tests {
         }
     }
 
+    #[derive(Debug)]
+    struct Von;
+    impl crate::load::OnVoltage for Von {
+        fn at_25c(&self, _i: Current) -> Voltage {
+            volts(0.2)
+        }
+        fn at_corner(&self, _i: Current) -> Voltage {
+            volts(0.2)
+        }
+    }
+
     fn relay(rated: f64) -> Relay {
         Relay {
             coil_20c: ohms(400.0),
@@ -418,6 +429,7 @@ mod tests {
                 current_max: r.current_max(&c, None),
                 on_voltage_max: volts(0.2),
                 own: None,
+                on: &Von,
             };
             let mut out = Vec::new();
             r.checks(&ctx, &mut out);

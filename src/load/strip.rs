@@ -146,7 +146,7 @@ impl Load for Strip {
         Some(Proposal::part(
             STRIP_VOLTAGE,
             vec![PartNeed {
-                figure: "strip rated voltage",
+                figure: "strip.rated_v",
                 bound: if too_high {
                     Bound::AtLeast
                 } else {

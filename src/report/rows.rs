@@ -362,12 +362,12 @@ fn stage_into(out: &mut Vec<Block>, s: &StageReport) {
                     .map(|c| {
                         format!(
                             "{} {} -> {}",
-                            c.field,
+                            field_label(&c.field),
                             c.from
                                 .as_ref()
-                                .map(show_value)
-                                .unwrap_or_else(|| "(none)".into()),
-                            show_value(&c.to)
+                                .map(|v| show_value(&c.field, v))
+                                .unwrap_or_else(|| "none".into()),
+                            show_value(&c.field, &c.to)
                         )
                     })
                     .collect();
@@ -375,12 +375,15 @@ fn stage_into(out: &mut Vec<Block>, s: &StageReport) {
             }
             match r.verdict_after {
                 Some(v) => {
-                    let mut text = format!("re-checked with the change: {}", v.as_str().to_uppercase());
+                    let mut text = format!(
+                        "re-checked with the whole change: {}",
+                        v.as_str().to_uppercase()
+                    );
                     if !r.still_short.is_empty() {
                         let short: Vec<String> = r
                             .still_short
                             .iter()
-                            .map(|x| format!("{} {}", x.check, x.status))
+                            .map(|x| format!("{} ({})", x.check, x.status))
                             .collect();
                         text.push_str(&format!("; still short: {}", short.join(", ")));
                     }
@@ -390,23 +393,66 @@ fn stage_into(out: &mut Vec<Block>, s: &StageReport) {
                     items.push(text);
                 }
                 None => items.push(
-                    "no board field can fix this stage: it needs another part or circuit (see above)"
+                    "no board field can fix this stage: it needs another part or circuit"
                         .to_string(),
                 ),
             }
-            for n in &r.needs {
-                items.push(format!("{}: {}", n.check, n.text));
+            if !r.needs.is_empty() {
+                let needs: Vec<String> = r.needs.iter().map(|n| n.text.clone()).collect();
+                items.push(format!(
+                    "what would pass in place of this part: {}",
+                    needs.join("; ")
+                ));
             }
         }
         out.push(Block::List(format!("Fixes, {}", s.name), items));
     }
 }
 
+/// A board field as a user names it.
+fn field_label(field: &str) -> &str {
+    match field {
+        "base_resistor_ohms" => "RB",
+        "gate_resistor_ohms" => "RG",
+        "pull_down_ohms" => "pull-down",
+        "load.resistor_ohms" => "RL",
+        "resistor_rating_w" => "fitted resistor rating",
+        other => other,
+    }
+}
+
 /// A board field's value as a user reads it.
-fn show_value(v: &serde_json::Value) -> String {
+fn show_value(field: &str, v: &serde_json::Value) -> String {
+    use serde_json::Value;
     match v {
-        serde_json::Value::Null => "none".to_string(),
-        serde_json::Value::Number(n) => n.to_string(),
+        Value::Null => "none".to_string(),
+        Value::Number(n) => {
+            let x = n.as_f64().unwrap_or(f64::NAN);
+            if field.ends_with("_ohms") {
+                crate::quantity::format_rkm(x)
+            } else if field.ends_with("_w") {
+                fe(x, "W")
+            } else {
+                plain(Some(x), 4)
+            }
+        }
+        Value::Object(m) => {
+            let mut parts = vec![m
+                .get("kind")
+                .and_then(Value::as_str)
+                .unwrap_or("?")
+                .to_string()];
+            for (key, unit, what) in [
+                ("zener_v", "V", "Zener"),
+                ("reverse_v", "V", "reverse"),
+                ("current_a", "A", "current"),
+            ] {
+                if let Some(x) = m.get(key).and_then(Value::as_f64) {
+                    parts.push(format!("{what} {}", fe(x, unit)));
+                }
+            }
+            parts.join(", ")
+        }
         other => other.to_string(),
     }
 }

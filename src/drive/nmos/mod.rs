@@ -63,6 +63,7 @@ pub struct NmosDetail {
     pub worst: NmosWorst,
 }
 
+#[derive(Debug)]
 struct NmosOn<'a> {
     part: &'a NmosPart,
     c: &'a Conditions,

@@ -80,7 +80,7 @@ pub fn remedies(
             )),
             None => {
                 let mut needs = vec![PartNeed {
-                    figure: "rds_on_max vgs_v",
+                    figure: "rds_on_max.vgs_v",
                     bound: Bound::AtMost,
                     value: w.vgs_min.base(),
                     unit: "V",
@@ -91,7 +91,7 @@ pub fn remedies(
                     // much lower.
                     let rise = part.th_tempco * (c.ambient_min.base() - T_REF_C);
                     needs.push(PartNeed {
-                        figure: "vgs_th max_v",
+                        figure: "vgs_th.max_v",
                         bound: Bound::AtMost,
                         value: w.vgs_min.base() / THRESHOLD_MARGIN - rise,
                         unit: "V",
@@ -100,7 +100,7 @@ pub fn remedies(
                 }
                 if w.point.id.is_some_and(|i| w.id_max > i) {
                     needs.push(PartNeed {
-                        figure: "rds_on_max id_a",
+                        figure: "rds_on_max.id_a",
                         bound: Bound::AtLeast,
                         value: w.id_max.base(),
                         unit: "A",

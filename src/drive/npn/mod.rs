@@ -24,6 +24,7 @@ use crate::remedy::Proposal;
 use checks::{pinned_low, stays_off};
 use corner::{gain_factor, pin_limited, pull_down_for, size_base, BaseSizing, NpnCorner, NpnWorst};
 pub use part::{NpnPart, Structure};
+pub use picture::class as picture_class;
 
 /// The collector current within the part's rating (stage-model 5).
 pub const COLLECTOR_CURRENT: CheckId = CheckId::new("collector-current", 40);
@@ -70,6 +71,7 @@ pub struct NpnDetail {
     pub gain_needed: Option<f64>,
 }
 
+#[derive(Debug)]
 struct NpnOn<'a> {
     part: &'a NpnPart,
 }

@@ -199,10 +199,10 @@ fn point_at(
             .operating_point(ib, vcc, r_load)
             .map(|(vce, ic)| OperatingPoint { ib, vce, ic });
     }
-    // The model's VCE plus the offset on the load line: VCC - IC R = VCE.
+    // The model's VCE plus the offset on the load line: VCE + IC R = VCC (rises with VCE).
     let f = |v: f64| {
         let ic = model.collector_current(ib, (v - offset).max(0.0));
-        vcc - ic * r_load - v
+        v + ic * r_load - vcc
     };
     let vce = bisect(f, offset, vcc.max(offset))?;
     Some(OperatingPoint {
@@ -476,4 +476,134 @@ pub fn picture(
         layout: Layout::LeftStackRight,
         panels: vec![full, zoom, overdrive_panel(c, w, &sweep)],
     })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::super::ebers_moll::vce_sat_ebers_moll;
+    use super::*;
+    use crate::analysis::analyse;
+    use crate::board::parse_board;
+    use crate::parts::Library;
+    use crate::stage::Stage;
+    use approx::assert_relative_eq;
+
+    /// A 12 V relay on a 3.3 V pin, RB sized (demo part, invented data), and a weak stage.
+    const BOARD: &str = r#"{ "stages": [
+        { "name": "K1 demo relay", "part": "demo-npn-40v", "supply_v": 12, "logic_high_v": 3.3,
+          "grade": "industrial", "load": { "kind": "relay", "coil_ohms": 400 },
+          "clamp": { "kind": "diode" } },
+        { "name": "weak drive", "part": "demo-npn-40v", "supply_v": 12, "logic_high_v": 3.3,
+          "ambient_c": [-20, 60], "load": { "kind": "current", "current_a": 0.04 },
+          "base_resistor_ohms": 47000, "pull_down_ohms": null } ] }"#;
+
+    fn stages() -> Vec<Stage> {
+        let lib = Library::builtin().expect("shipped parts");
+        parse_board("demo.json", BOARD, &lib)
+            .expect("parses")
+            .stages
+    }
+
+    fn view_of(s: &Stage) -> (OutputView, crate::analysis::Analysis) {
+        let a = analyse(s);
+        let part = s.switch.as_any().downcast_ref::<NpnPart>().expect("npn");
+        let w = detail(&a.drive).expect("npn detail").worst;
+        (
+            output_view(part, &s.conditions, &a.corner, &w).expect("view"),
+            a,
+        )
+    }
+
+    #[test]
+    fn operating_points_agree_with_the_engine() {
+        let stages = stages();
+        // Sized stage: overdrive >= target, so the worst point is saturated at about IC,max.
+        let (v, a) = view_of(&stages[0]);
+        let w = detail(&a.drive).expect("npn").worst;
+        assert!(w.overdrive.unwrap_or(0.0) >= 2.0);
+        let p = v.worst.expect("worst point");
+        assert_relative_eq!(p.ib, w.base_current_min.base(), max_relative = 1e-12);
+        assert!(
+            p.vce < v.knee,
+            "saturated: VCE {} below knee {}",
+            p.vce,
+            v.knee
+        );
+        assert_relative_eq!(p.ic, w.corner.ic_max.base(), max_relative = 0.03);
+        // The worst-case model was fitted so VBE there is the engine's VBE(sat),max at Ta,min.
+        assert_relative_eq!(
+            v.model_worst.vbe(p.ib, p.vce),
+            w.corner.vbe_max_cold.base(),
+            max_relative = 2e-3
+        );
+        // Weak stage: overdrive < 1, so the model sits in the active region at IC = gain x
+        // IB,min = overdrive x IC,max.
+        let (v, a) = view_of(&stages[1]);
+        let w = detail(&a.drive).expect("npn").worst;
+        let od = w.overdrive.unwrap_or(0.0);
+        assert!(od > 0.0 && od < 0.9, "weak stage overdrive {od}");
+        let p = v.worst.expect("worst point");
+        assert_relative_eq!(p.ic, od * w.corner.ic_max.base(), max_relative = 1e-3);
+        assert!(p.vce > v.knee);
+    }
+
+    #[test]
+    fn overdrive_sweep_starts_at_the_engine_figure_and_rises_when_warm() {
+        for s in stages() {
+            let a = analyse(&s);
+            let pic = crate::pipeline::picture(&s, &a).expect("a picture");
+            let sweep = &pic.panels[2].curves[0].points;
+            assert_eq!(sweep.len(), crate::pipeline::SWEEP_POINTS);
+            assert_relative_eq!(sweep[0].0, s.conditions.ambient_min.base());
+            // At Ta,min the sweep is the engine's own worst case with the same resistors.
+            let od = detail(&a.drive)
+                .and_then(|d| d.worst.overdrive)
+                .unwrap_or(0.0);
+            assert_relative_eq!(sweep[0].1, od, max_relative = 1e-12);
+            // Gain rises and VBE falls with temperature (stage-model 3); coil current falls:
+            // the worst-case overdrive can only rise with the cold end of the range.
+            assert!(sweep.windows(2).all(|w| w[1].1 > w[0].1));
+        }
+    }
+
+    #[test]
+    fn knee_is_the_ebers_moll_saturation_voltage() {
+        let s = &stages()[0];
+        let (v, a) = view_of(s);
+        let m = v.model_nominal;
+        // Ebers-Moll saturation voltage (Sedra & Smith, edition from memory) at 0.9 beta_F.
+        assert_relative_eq!(
+            v.knee,
+            vce_sat_ebers_moll(
+                KNEE_FRACTION * m.beta_f,
+                m.beta_f,
+                REVERSE_BETA,
+                thermal_voltage(25.0)
+            ),
+            max_relative = 1e-12
+        );
+        let part = s.switch.as_any().downcast_ref::<NpnPart>().expect("npn");
+        assert_relative_eq!(
+            m.beta_f,
+            part.gain_min_at(a.corner.current_max),
+            max_relative = 1e-12
+        );
+    }
+
+    #[test]
+    fn a_darlington_picture_never_shows_vce_below_one_base_emitter_drop() {
+        // Stage-model 6b: a Darlington pair's output transistor is driven from the first one's
+        // emitter, so VCE stays above about one VBE (textbook).
+        let lib = Library::builtin().expect("shipped parts");
+        let text = r#"{ "stages": [ { "name": "pair", "part": "TIP120", "supply_v": 24,
+            "logic_high_v": 5, "load": { "kind": "current", "current_a": 1.0 } } ] }"#;
+        let s = parse_board("d.json", text, &lib)
+            .expect("parses")
+            .stages
+            .remove(0);
+        let (v, _) = view_of(&s);
+        let p = v.worst.expect("worst point");
+        assert!(p.vce >= 0.5, "VCE {} below one junction", p.vce);
+        assert!(v.knee >= 0.5);
+    }
 }

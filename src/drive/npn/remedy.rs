@@ -72,10 +72,10 @@ pub fn remedies(
         && (given || pull_down != c.inputs.pull_down)
         && resized.rb != a.series;
     if resize {
-        let check = if pinned_short.is_some() || new_pull_down_starves {
-            PINNED_LOW
-        } else {
+        let check = if short(PIN_CURRENT).is_some() {
             PIN_CURRENT
+        } else {
+            PINNED_LOW
         };
         out.push(Proposal::edit(
             check,
@@ -95,7 +95,7 @@ pub fn remedies(
             out.push(Proposal::part(
                 PINNED_LOW,
                 vec![PartNeed {
-                    figure: "vbe_sat max_v",
+                    figure: "vbe_sat.max_v",
                     bound: Bound::AtMost,
                     value: c.logic_high_min.base() - shift,
                     unit: "V",
@@ -111,7 +111,7 @@ pub fn remedies(
             out.push(Proposal::part(
                 PINNED_LOW,
                 gain.map(|g| PartNeed {
-                    figure: "gain_min hfe",
+                    figure: "gain_min.hfe",
                     bound: Bound::AtLeast,
                     value: g,
                     unit: "",
