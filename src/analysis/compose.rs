@@ -101,32 +101,47 @@ pub fn compose(stage: &Stage, a: &Analysis) -> Option<Remedy> {
     if a.verdict == Status::Pass {
         return None;
     }
-    let proposals = proposals(stage, a);
-    let edits: Vec<Edit> = proposals
+    let mut proposals = proposals(stage, a);
+    // Every edit first; should that leave the stage worse than it was (a pull-down that starves
+    // the base, say), only the edits that answer failing checks; failing that, no change.
+    let status_of = |id: CheckId| a.finding(id).map(|f| f.status).unwrap_or(Status::Pass);
+    let all: Vec<Edit> = proposals.iter().flat_map(|p| p.edits.iter().cloned()).collect();
+    let failing: Vec<Edit> = proposals
         .iter()
+        .filter(|p| status_of(p.check) == Status::Fail)
         .flat_map(|p| p.edits.iter().cloned())
         .collect();
-    if edits.is_empty() {
-        return Some(Remedy {
-            proposals,
-            changes: Vec::new(),
-            after: None,
-        });
+    for (i, edits) in [all, failing].into_iter().enumerate() {
+        if edits.is_empty() {
+            continue;
+        }
+        // A change the resolver refuses (it never should) counts as no change.
+        if let Ok((changes, after)) = apply(stage, a, &edits) {
+            if after.analysis.verdict <= a.verdict {
+                if i > 0 {
+                    // The edits left out are not part of the remedy any more.
+                    for p in &mut proposals {
+                        if status_of(p.check) != Status::Fail {
+                            p.edits.clear();
+                        }
+                    }
+                }
+                return Some(Remedy {
+                    proposals,
+                    changes,
+                    after: Some(after),
+                });
+            }
+        }
     }
-    match apply(stage, a, &edits) {
-        Ok((changes, after)) => Some(Remedy {
-            proposals,
-            changes,
-            after: Some(after),
-        }),
-        // A change the resolver refuses (it never should) is reported as no change at all
-        // rather than as a remedy that cannot be followed.
-        Err(_) => Some(Remedy {
-            proposals,
-            changes: Vec::new(),
-            after: None,
-        }),
+    for p in &mut proposals {
+        p.edits.clear();
     }
+    Some(Remedy {
+        proposals,
+        changes: Vec::new(),
+        after: None,
+    })
 }
 
 /// The stage's own fields as a JSON object.
