@@ -27,6 +27,27 @@ pub enum Error {
         /// The operating system's reason.
         source: std::io::Error,
     },
+    /// A file (or standard output) could not be written.
+    #[error("{}: cannot write: {source}", path.display())]
+    Write {
+        /// The file, or `<standard output>`.
+        path: PathBuf,
+        /// The operating system's reason.
+        source: std::io::Error,
+    },
+    /// Standard output was closed by its reader (`pinlow audit b.json | head -1`): not a fault
+    /// of the input; the binary ends quietly with status 141, as a process ended by SIGPIPE.
+    #[error("standard output was closed")]
+    OutputClosed,
+    /// An error met while using a source that the message must name first, e.g.
+    /// `PINLOW_PARTS entry 2 (/x/y): ...`.
+    #[error("{context}: {source}")]
+    Context {
+        /// What was being read.
+        context: String,
+        /// What went wrong there.
+        source: Box<Error>,
+    },
     /// A JSON file is malformed or does not fit its schema (unknown key, wrong type, missing field).
     #[error("{file}: {location}{message}")]
     Json {
@@ -85,9 +106,15 @@ impl Error {
     /// Add the line and column of the JSON path an error names, when `text` (the contents of
     /// `file`) holds it: `FILE: stages[0].x` becomes `FILE: line L, column C, at stages[0].x`.
     pub fn with_position(self, file: &str, text: &str) -> Self {
+        self.with_locator(file, &|path| crate::jsonpos::locate(text, path))
+    }
+
+    /// As [`Error::with_position`], with `locate` giving the (line, column) of a JSON path of
+    /// `file` (for a file read piece by piece, see `board::stream`).
+    pub fn with_locator(self, file: &str, locate: &dyn Fn(&str) -> Option<(usize, usize)>) -> Self {
         let locate = |place: &str| -> Option<String> {
             let path = place.strip_prefix(file)?.strip_prefix(": ")?;
-            let (line, column) = crate::jsonpos::locate(text, path)?;
+            let (line, column) = locate(path)?;
             Some(format!("{file}: line {line}, column {column}, at {path}"))
         };
         match self {
@@ -107,9 +134,19 @@ impl Error {
     /// Turn a serde_json error met while reading `file` at `path` into an [`Error::Json`] that
     /// gives line, column and JSON path.
     pub fn from_json(file: &str, path: &str, err: &serde_json::Error) -> Self {
+        Self::from_json_at(file, path, (err.line(), err.column()), err)
+    }
+
+    /// As [`Error::from_json`], with the (line, column) to name given (line 0: none).
+    pub fn from_json_at(
+        file: &str,
+        path: &str,
+        (line, column): (usize, usize),
+        err: &serde_json::Error,
+    ) -> Self {
         let mut location = String::new();
-        if err.line() > 0 {
-            location.push_str(&format!("line {}, column {}", err.line(), err.column()));
+        if line > 0 {
+            location.push_str(&format!("line {line}, column {column}"));
         }
         let path = path.trim_end_matches(".?").trim_end_matches('?');
         if !path.is_empty() && path != "." {
@@ -138,10 +175,26 @@ impl Error {
 /// Deserialize `text` (the contents of `file`) into `T`, with errors that name line, column and
 /// JSON path.
 pub fn parse_json<T: serde::de::DeserializeOwned>(file: &str, text: &str) -> Result<T> {
+    parse_json_at(file, text, "", &|line, column| (line, column))
+}
+
+/// Deserialize `text`, one value of a larger file, into `T`: `prefix` is the value's JSON path
+/// in the file (`stages[7]`, empty for the whole file) and `shift` turns a (line, column) inside
+/// `text` into one of the file.
+pub fn parse_json_at<T: serde::de::DeserializeOwned>(
+    file: &str,
+    text: &str,
+    prefix: &str,
+    shift: &dyn Fn(usize, usize) -> (usize, usize),
+) -> Result<T> {
+    let at = |e: &serde_json::Error| match e.line() {
+        0 => (0, 0),
+        line => shift(line, e.column()),
+    };
     let mut de = serde_json::Deserializer::from_str(text);
     let value: T = serde_path_to_error::deserialize(&mut de).map_err(|e| {
-        let path = e.path().to_string();
-        let mut err = Error::from_json(file, &path, e.inner());
+        let path = join_path(prefix, &e.path().to_string());
+        let mut err = Error::from_json_at(file, &path, at(e.inner()), e.inner());
         if let Error::Json { message, .. } = &mut err {
             if non_finite_at(text, e.inner().line(), e.inner().column()) {
                 message.push_str(" (JSON has no NaN or Infinity: give a finite number)");
@@ -149,8 +202,21 @@ pub fn parse_json<T: serde::de::DeserializeOwned>(file: &str, text: &str) -> Res
         }
         err
     })?;
-    de.end().map_err(|e| Error::from_json(file, "", &e))?;
+    de.end()
+        .map_err(|e| Error::from_json_at(file, prefix, at(&e), &e))?;
     Ok(value)
+}
+
+/// `stages[2]` + `load.coil_ohms` -> `stages[2].load.coil_ohms` (serde_path_to_error writes the
+/// root as `.`).
+fn join_path(prefix: &str, path: &str) -> String {
+    let path = path.trim_end_matches(".?").trim_end_matches('?');
+    match (prefix.is_empty(), path) {
+        (true, _) => path.to_string(),
+        (false, "" | ".") => prefix.to_string(),
+        (false, p) if p.starts_with('[') => format!("{prefix}{p}"),
+        (false, p) => format!("{prefix}.{p}"),
+    }
 }
 
 /// True when the text at a 1-based line and column starts a NaN or Infinity token.

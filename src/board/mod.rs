@@ -1,21 +1,23 @@
-//! Board files (files.md): read, merge each stage over the defaults, resolve into typed stages.
+//! Board files (files.md): read as a stream (`stream`), each stage merged over the defaults and
+//! resolved into a typed stage, one at a time.
 
 mod fields;
 mod raw;
 mod resolve;
+pub mod stream;
 
 pub use fields::flag_for;
 pub use raw::{Grade, RawBoard, RawClamp, RawLoad, RawStage};
 pub use resolve::{resolve_stage, Origin};
+pub use stream::{BoardStream, RawElement, RawText, STDIN_LABEL};
 
 use std::path::Path;
 
-use crate::error::{parse_json, Error, Result};
+use crate::error::{Error, Result};
 use crate::parts::Library;
-use crate::read::{read_text, BOARD_FILE_LIMIT};
 use crate::stage::Stage;
 
-/// A board ready for the engine.
+/// A board ready for the engine, held whole (small boards, tests).
 #[derive(Clone, Debug)]
 pub struct Board {
     /// The board's name, when the file gives one.
@@ -24,35 +26,109 @@ pub struct Board {
     pub stages: Vec<Stage>,
 }
 
-/// Read a board file from disk.
+/// A board file opened for reading its stages one at a time, as often as asked: its name and
+/// defaults are read, the stages are not held.
+#[derive(Debug)]
+pub struct BoardReader {
+    stream: BoardStream,
+    name: Option<String>,
+    defaults: RawStage,
+}
+
+impl BoardReader {
+    /// Open a board file (`-`: standard input) and read its name and defaults.
+    pub fn open(path: &Path) -> Result<BoardReader> {
+        BoardReader::from_stream(BoardStream::open(path)?)
+    }
+
+    /// A board held in memory; `file` names it in errors.
+    pub fn from_text(file: &str, text: &str) -> Result<BoardReader> {
+        BoardReader::from_stream(BoardStream::from_bytes(file, text.as_bytes().to_vec())?)
+    }
+
+    /// Read the name and defaults of an opened stream.
+    pub fn from_stream(stream: BoardStream) -> Result<BoardReader> {
+        let label = stream.label();
+        let name = match stream.board() {
+            Some(raw) => raw.parse::<Option<String>>(label, "board")?,
+            None => None,
+        };
+        let defaults = match stream.defaults() {
+            Some(raw) => raw.parse::<RawStage>(label, "defaults")?,
+            None => RawStage::default(),
+        };
+        Ok(BoardReader {
+            stream,
+            name,
+            defaults,
+        })
+    }
+
+    /// The file as messages name it (`<stdin>` for standard input).
+    pub fn label(&self) -> &str {
+        self.stream.label()
+    }
+
+    /// The board's name, when the file gives one.
+    pub fn name(&self) -> Option<&str> {
+        self.name.as_deref()
+    }
+
+    /// Number of stages (at least one).
+    pub fn len(&self) -> usize {
+        self.stream.len()
+    }
+
+    /// Never true: a board without stages is refused when it is opened.
+    pub fn is_empty(&self) -> bool {
+        self.stream.is_empty()
+    }
+
+    /// The stages from the first, each parsed and resolved over the defaults when it is
+    /// reached; errors name the file, the JSON path, the line and the column.
+    pub fn stages<'a>(
+        &'a mut self,
+        lib: &'a Library,
+    ) -> Result<impl Iterator<Item = Result<Stage>> + 'a> {
+        let BoardReader {
+            stream, defaults, ..
+        } = self;
+        let label = stream.label().to_string();
+        let locator = stream.locator();
+        let elements = stream.stages()?;
+        Ok(elements.map(move |element| {
+            let element = element?;
+            let raw: RawStage = element.raw.parse(&label, &element.path())?;
+            let origin = Origin::File {
+                file: label.clone(),
+                index: element.index,
+            };
+            resolve_stage(&raw, defaults, &origin, lib)
+                .map_err(|e| e.with_locator(&label, &|path| locator.locate(Some(&element), path)))
+        }))
+    }
+}
+
+/// Read a board file whole (`-`: standard input).
 pub fn read_board(path: &Path, lib: &Library) -> Result<Board> {
-    let text = read_text(path, BOARD_FILE_LIMIT)?;
-    parse_board(&path.display().to_string(), &text, lib)
+    collect(BoardReader::open(path)?, lib)
 }
 
 /// Parse a board file's text (`file` names it in errors).
 pub fn parse_board(file: &str, text: &str, lib: &Library) -> Result<Board> {
-    let raw: RawBoard = parse_json(file, text)?;
-    if raw.stages.is_empty() {
-        return Err(
-            Error::invalid(format!("{file}: stages"), "the board has no stage to audit")
-                .with_position(file, text),
-        );
+    collect(BoardReader::from_text(file, text)?, lib)
+}
+
+fn collect(mut reader: BoardReader, lib: &Library) -> Result<Board> {
+    let stages = reader.stages(lib)?.collect::<Result<Vec<_>>>()?;
+    if stages.is_empty() {
+        return Err(Error::invalid(
+            format!("{}: stages", reader.label()),
+            "the board has no stage to audit",
+        ));
     }
-    let stages = raw
-        .stages
-        .iter()
-        .enumerate()
-        .map(|(index, s)| {
-            let origin = Origin::File {
-                file: file.to_string(),
-                index,
-            };
-            resolve_stage(s, &raw.defaults, &origin, lib).map_err(|e| e.with_position(file, text))
-        })
-        .collect::<Result<Vec<_>>>()?;
     Ok(Board {
-        name: raw.board,
+        name: reader.name.take(),
         stages,
     })
 }
