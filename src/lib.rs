@@ -26,6 +26,7 @@ pub mod error;
 pub mod eseries;
 pub mod jsonpos;
 pub mod load;
+pub mod outputs;
 pub mod parts;
 pub mod plot;
 pub mod quantity;

@@ -6,7 +6,9 @@ mod part;
 mod record;
 mod validate;
 
-pub use library::{builtin_sources, check_file, Library, PartSource};
+pub use library::{
+    builtin_sources, check_file, check_paths, folder_files, Library, PartSource, PartsPath,
+};
 pub use part::{GainPoint, Part, VbeSatPoint, VceSatPoint};
 pub use record::PartRecord;
 pub use validate::part_from_record;
