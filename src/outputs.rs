@@ -236,7 +236,7 @@ impl<'a> Plan<'a> {
                 .and_then(|dir| self.inputs.folders.get(dir));
             if let Some(folder) = folder {
                 return Err(Error::Usage(format!(
-                    "cannot write {}: it would add a file to the parts folder {folder}, which is read as a part file; choose another folder",
+                    "cannot write {}: it would add a file to the parts folder {folder}, where every *.json is read as a part file; choose another folder",
                     shown.display()
                 )));
             }

@@ -54,7 +54,7 @@ pub fn list(lib: &Library, format: Format) -> String {
                 .collect();
             format!(
                 "{}\n",
-                serde_json::to_string_pretty(&items).unwrap_or_default()
+                serde_json::to_string_pretty(&json!({ "parts": items })).unwrap_or_default()
             )
         }
         Format::Markdown => {
@@ -158,7 +158,8 @@ pub fn show(p: &Part, format: Format) -> String {
                 .collect();
             format!(
                 "{}\n",
-                serde_json::to_string_pretty(&map).unwrap_or_default()
+                serde_json::to_string_pretty(&json!({ "id": p.id, "fields": map }))
+                    .unwrap_or_default()
             )
         }
         Format::Markdown => {
