@@ -310,15 +310,20 @@ fn resolve_file(path: &Path) -> Result<PathBuf> {
         source,
     };
     match std::fs::symlink_metadata(path) {
-        Ok(meta) => std::fs::canonicalize(path).map_err(|e| {
-            if meta.file_type().is_symlink() {
+        Ok(meta) => std::fs::canonicalize(path).or_else(|e| {
+            // A link to a pipe or socket (`/dev/stdout` on a pipe leads to `pipe:[N]`): no
+            // path to resolve, but something to write to in place.
+            if std::fs::metadata(path).is_ok_and(|m| !m.is_file() && !m.is_dir()) {
+                return Ok(path.to_path_buf());
+            }
+            Err(if meta.file_type().is_symlink() {
                 Error::Usage(format!(
                     "cannot write {}: it is a symbolic link that leads nowhere ({e}); remove it or give another name",
                     path.display()
                 ))
             } else {
                 write_error(e)
-            }
+            })
         }),
         Err(e) if e.kind() == std::io::ErrorKind::NotFound => {
             let Some(name) = path.file_name() else {
@@ -457,6 +462,7 @@ impl Target {
                 target: self.path.clone(),
                 shown: self.shown.clone(),
                 kind: self.kind,
+                special: true,
                 marked: true,
             });
         }
@@ -467,6 +473,7 @@ impl Target {
             target: self.path.clone(),
             shown: self.shown.clone(),
             kind: self.kind,
+            special: false,
             marked: false,
         };
         if let (Some(permissions), Some(temp)) = (&self.permissions, &out.temp) {
@@ -512,13 +519,19 @@ pub struct OutputFile {
     target: PathBuf,
     shown: PathBuf,
     kind: Kind,
+    /// A device or a pipe, written in place.
+    special: bool,
     /// The marker is written (or not wanted).
     marked: bool,
 }
 
 impl OutputFile {
-    /// A write error of this file, naming it as given.
+    /// A write error of this file, naming it as given ([`Error::OutputClosed`] when it is a
+    /// pipe whose reader went away).
     pub fn error(&self, source: std::io::Error) -> Error {
+        if self.special && source.kind() == std::io::ErrorKind::BrokenPipe {
+            return Error::OutputClosed;
+        }
         Error::Write {
             path: self.shown.clone(),
             source,

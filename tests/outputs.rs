@@ -445,6 +445,31 @@ fn plots_are_checked_first_and_linked_from_the_report_folder() {
 }
 
 #[test]
+fn devices_and_pipes_are_written_in_place() {
+    // /dev/null and /dev/stdout (here a pipe) are not files to replace: written as they are,
+    // without a marker.
+    let (code, plain, _) = common::run(&["audit", "examples/greenhouse.json", "--format", "json"]);
+    assert_eq!(code, 1);
+    if Path::new("/dev/stdout").exists() {
+        let (code, out, err) = common::run(&[
+            "audit",
+            "examples/greenhouse.json",
+            "--format",
+            "json",
+            "-o",
+            "/dev/stdout",
+        ]);
+        assert_eq!(code, 1, "{err}");
+        assert_eq!(out, plain);
+    }
+    if Path::new("/dev/null").exists() {
+        let (code, out, err) =
+            common::run(&["audit", "examples/greenhouse.json", "-o", "/dev/null"]);
+        assert_eq!((code, out.as_str(), err.as_str()), (1, "", ""));
+    }
+}
+
+#[test]
 fn write_failures_say_cannot_write() {
     let dir = scratch("write-failures");
     std::fs::write(dir.join("b.json"), one_stage_board()).expect("board");
