@@ -1,16 +1,21 @@
 //! What each command does: read input, call the engine, render, decide the exit code.
 //! `main.rs` only parses the command line and turns the outcome into a process exit code.
 
+use std::cell::RefCell;
 use std::io::{IsTerminal, Write};
 use std::path::{Path, PathBuf};
 
 use crate::analysis::yield_mc::YieldOptions;
-use crate::board::{read_board, resolve_stage, RawStage};
+use crate::board::{resolve_stage, BoardReader, RawStage};
 use crate::check::Status;
-use crate::cli::{Cli, ColorArg, Command, FormatArg, PartsCommand, StageArgs, YieldArgs};
+use crate::cli::{
+    Cli, ColorArg, Command, FormatArg, LibraryArgs, OutputArgs, PartsCommand, ReportArgs,
+    StageArgs, YieldArgs,
+};
 use crate::error::{Error, Result};
 use crate::fields::Origin;
-use crate::parts::{check_files, Library};
+use crate::outputs::{relative_link, Folder, Inputs, Kind, Plan, Target};
+use crate::parts::{check_paths, Library, PartsPath};
 use crate::pipeline::{self, Options};
 use crate::report::{output_width, renderer_with_width, write_report, Format, StageReport};
 use crate::stage::Stage;
@@ -22,11 +27,24 @@ mod progress;
 /// Seed of the yield draws when `--seed` is not given.
 pub const DEFAULT_SEED: u64 = 1;
 
+/// Exit status when standard output is closed before everything is written (the reader of a
+/// pipe went away, `pinlow audit b.json | head -1`): 128 + 13, as for a process ended by
+/// SIGPIPE, and nothing on standard error.
+pub const OUTPUT_CLOSED_EXIT: u8 = 141;
+
 pub use flags::raw_from_flags;
+
+/// What `--color auto` looks at.
+#[derive(Clone, Copy, Debug)]
+struct Terminal {
+    stdout_is_tty: bool,
+    no_color: bool,
+}
 
 /// Run a parsed command line, writing results to `out` (or to `--output`). `env_parts` is the
 /// `PINLOW_PARTS` path list; `stdout_is_tty` and `no_color` decide colour under `--color auto`.
-/// Returns the exit code of a result (0 or 1); errors mean exit code 2.
+/// Returns the exit code of a result (0 or 1); errors mean exit code 2, except
+/// [`Error::OutputClosed`] ([`OUTPUT_CLOSED_EXIT`]).
 pub fn run(
     cli: &Cli,
     env_parts: Option<&std::ffi::OsStr>,
@@ -34,109 +52,70 @@ pub fn run(
     no_color: bool,
     out: &mut dyn Write,
 ) -> Result<u8> {
-    let mut paths: Vec<PathBuf> = env_parts
-        .map(|v| {
-            std::env::split_paths(v)
-                .filter(|p| !p.as_os_str().is_empty())
-                .collect()
-        })
-        .unwrap_or_default();
-    paths.extend(cli.parts.iter().cloned());
-    let color = match cli.color {
-        ColorArg::Always => true,
-        ColorArg::Never => false,
-        ColorArg::Auto => stdout_is_tty && !no_color && cli.output.is_none(),
+    let env = env_parts.map(PartsPath::from_env).unwrap_or_default();
+    let terminal = Terminal {
+        stdout_is_tty,
+        no_color,
     };
-    let format = match cli.format {
-        FormatArg::Table => Format::Table,
-        FormatArg::Json => Format::Json,
-        FormatArg::Markdown => Format::Markdown,
-    };
-    refuse_unused_flags(cli)?;
     match &cli.command {
-        Command::Parts(PartsCommand::Check { files }) => {
-            let (parts, mut errors) = check_files(files);
-            let mut text = String::new();
-            for (f, part) in &parts {
-                text.push_str(&format!(
-                    "{}: ok ({}, {})\n",
-                    f.display(),
-                    part.info().id,
-                    part.kind().name
-                ));
-            }
-            match errors.len() {
-                0 => emit(cli, out, &text),
-                1 => Err(errors.remove(0)),
-                _ => Err(Error::Many(errors)),
-            }
+        Command::Parts(PartsCommand::Check { files, output }) => parts_check(files, output, out),
+        Command::Parts(PartsCommand::List {
+            format,
+            library,
+            output,
+        }) => {
+            let (lib, inputs) = library_of(&env, library)?;
+            let text = parts_view::list(&lib, format_of(*format));
+            emit(&inputs, output, kind_of(*format), out, &text)
         }
-        Command::Parts(PartsCommand::List) => {
-            let lib = Library::load(&paths)?;
-            emit(cli, out, &parts_view::list(&lib, format))
-        }
-        Command::Parts(PartsCommand::Show { id }) => {
-            let lib = Library::load(&paths)?;
+        Command::Parts(PartsCommand::Show {
+            id,
+            format,
+            library,
+            output,
+        }) => {
+            let (lib, inputs) = library_of(&env, library)?;
             let part = lib.require(id, "pinlow parts show")?;
-            emit(cli, out, &parts_view::show(part.as_ref(), format))
+            let text = parts_view::show(part.as_ref(), format_of(*format));
+            emit(&inputs, output, kind_of(*format), out, &text)
         }
         Command::Size {
-            stage: args,
+            stage,
             yield_args,
+            library,
+            report: args,
+            output,
         } => {
-            if args.base_resistor.is_some() || args.gate_resistor.is_some() {
+            if stage.base_resistor.is_some() || stage.gate_resistor.is_some() {
                 return Err(Error::Usage(
                     "--base-resistor / --gate-resistor: `size` sizes the input resistor; to check a given one use `pinlow audit ... --base-resistor` (or --gate-resistor)".into(),
                 ));
             }
-            let lib = Library::load(&paths)?;
-            let stage = stage_from_flags(args, &lib)?;
-            report(cli, yield_args, out, format, color, None, &[stage])
-        }
-        Command::Plot { board, stage } => {
-            let lib = Library::load(&paths)?;
-            let Some(target) = &cli.output else {
-                return Err(Error::Usage("plot needs --output FILE.svg".into()));
+            let (lib, inputs) = library_of(&env, library)?;
+            let stages = Stages::one(stage_from_flags(stage, &lib)?);
+            let run = ReportRun {
+                lib: &lib,
+                inputs: &inputs,
+                args,
+                yield_args,
+                output,
+                terminal,
             };
-            let stages = match board {
-                Some(path) => {
-                    refuse_flags_with_board(stage)?;
-                    read_board(path, &lib)?.stages
-                }
-                None => vec![stage_from_flags(stage, &lib)?],
-            };
-            let mut written = String::new();
-            for (i, s) in stages.iter().enumerate() {
-                let path = if stages.len() == 1 {
-                    target.clone()
-                } else {
-                    numbered(target, i + 1)
-                };
-                write_stage_svg(s, &path)?;
-                written.push_str(&format!("{}: {}\n", s.name, path.display()));
-            }
-            out.write_all(written.as_bytes()).map_err(stdout_error)?;
-            Ok(0)
+            run.report(stages, out)
         }
         Command::Audit {
             board,
             stage,
             yield_args,
+            library,
+            report: args,
+            output,
         } => {
-            let lib = Library::load(&paths)?;
-            match board {
+            let (lib, mut inputs) = library_of(&env, library)?;
+            let stages = match board {
                 Some(path) => {
                     refuse_flags_with_board(stage)?;
-                    let board = read_board(path, &lib)?;
-                    report(
-                        cli,
-                        yield_args,
-                        out,
-                        format,
-                        color,
-                        board.name,
-                        &board.stages,
-                    )
+                    Stages::open(path, &mut inputs)?
                 }
                 None => {
                     if stage.base_resistor.is_none() && stage.gate_resistor.is_none() {
@@ -144,31 +123,164 @@ pub fn run(
                             "audit needs a board FILE, or stage flags with --base-resistor (npn) or --gate-resistor (nmos) (use `pinlow size` to size one)".into(),
                         ));
                     }
-                    let s = stage_from_flags(stage, &lib)?;
-                    report(cli, yield_args, out, format, color, None, &[s])
+                    Stages::one(stage_from_flags(stage, &lib)?)
                 }
+            };
+            let run = ReportRun {
+                lib: &lib,
+                inputs: &inputs,
+                args,
+                yield_args,
+                output,
+                terminal,
+            };
+            run.report(stages, out)
+        }
+        Command::Plot {
+            board,
+            stage,
+            library,
+            output,
+        } => {
+            let (lib, mut inputs) = library_of(&env, library)?;
+            let mut stages = match board {
+                Some(path) => {
+                    refuse_flags_with_board(stage)?;
+                    Stages::open(path, &mut inputs)?
+                }
+                None => Stages::one(stage_from_flags(stage, &lib)?),
+            };
+            // Every file is checked before the first is written.
+            let mut plan = Plan::new(&inputs, output.force);
+            let count = stages.len();
+            let targets = if count == 1 {
+                vec![plan.file(&output.output, Kind::Svg)?]
+            } else {
+                (1..=count)
+                    .map(|n| plan.file(&numbered(&output.output, n), Kind::Svg))
+                    .collect::<Result<Vec<_>>>()?
+            };
+            for s in stages.iter(&lib)? {
+                s?;
             }
+            for (s, target) in stages.iter(&lib)?.zip(&targets) {
+                let s = s?;
+                write_stage_svg(&s, target)?;
+                writeln!(out, "{}: {}", s.name, target.shown().display()).map_err(stdout_error)?;
+            }
+            Ok(0)
         }
     }
 }
 
-/// Report flags mean nothing to `parts` and `plot`: say so rather than ignore them.
-fn refuse_unused_flags(cli: &Cli) -> Result<()> {
-    let command = match &cli.command {
-        Command::Parts(_) => "parts",
-        Command::Plot { .. } => "plot",
-        Command::Size { .. } | Command::Audit { .. } => return Ok(()),
-    };
-    let used = [
-        ("--strict", cli.strict),
-        ("--only-problems", cli.only_problems),
-        ("--plots", cli.plots.is_some()),
-    ];
-    match used.iter().find(|(_, set)| *set) {
-        Some((flag, _)) => Err(Error::Usage(format!(
-            "{flag} applies to `size` and `audit` reports, not to `{command}`"
-        ))),
-        None => Ok(()),
+/// The stages a report or a plot goes over: one from flags, or a board read as a stream
+/// (each pass reads it again, so its stages are never all held).
+enum Stages {
+    One(Box<Stage>),
+    Board(Box<BoardReader>),
+}
+
+impl Stages {
+    /// Open a board file (`-`: standard input) and count it among the inputs.
+    fn open(path: &Path, inputs: &mut Inputs) -> Result<Stages> {
+        if path.as_os_str() == "-" {
+            inputs.add_stdin();
+        } else {
+            inputs.add_file(path, &path.display().to_string());
+        }
+        Ok(Stages::Board(Box::new(BoardReader::open(path)?)))
+    }
+
+    fn one(stage: Stage) -> Stages {
+        Stages::One(Box::new(stage))
+    }
+
+    fn len(&self) -> usize {
+        match self {
+            Stages::One(_) => 1,
+            Stages::Board(b) => b.len(),
+        }
+    }
+
+    fn name(&self) -> Option<String> {
+        match self {
+            Stages::One(_) => None,
+            Stages::Board(b) => b.name().map(str::to_string),
+        }
+    }
+
+    fn iter<'a>(
+        &'a mut self,
+        lib: &'a Library,
+    ) -> Result<Box<dyn Iterator<Item = Result<Stage>> + 'a>> {
+        match self {
+            Stages::One(s) => Ok(Box::new(std::iter::once(Ok(s.as_ref().clone())))),
+            Stages::Board(b) => Ok(Box::new(b.stages(lib)?)),
+        }
+    }
+}
+
+/// The shipped parts with those of `PINLOW_PARTS` and `--parts`, and those paths as inputs.
+fn library_of(env: &[PartsPath], args: &LibraryArgs) -> Result<(Library, Inputs)> {
+    let mut sources = env.to_vec();
+    sources.extend(args.parts.iter().cloned().map(PartsPath::given));
+    let mut inputs = Inputs::new();
+    for source in &sources {
+        inputs.add_parts(&source.path);
+    }
+    Ok((Library::load_from(&sources)?, inputs))
+}
+
+/// `pinlow parts check`: every file and folder, then ids across them.
+fn parts_check(files: &[PathBuf], output: &OutputArgs, out: &mut dyn Write) -> Result<u8> {
+    let mut inputs = Inputs::new();
+    for f in files {
+        inputs.add_parts(f);
+    }
+    let mut plan = Plan::new(&inputs, output.force);
+    let target = output
+        .output
+        .as_ref()
+        .map(|p| plan.file(p, Kind::Text))
+        .transpose()?;
+    let (good, mut errors) = check_paths(files);
+    if errors.len() > 1 {
+        return Err(Error::Many(errors));
+    }
+    if let Some(e) = errors.pop() {
+        return Err(e);
+    }
+    let text: String = good
+        .iter()
+        .map(|(f, part)| {
+            format!(
+                "{}: ok ({}, {})\n",
+                f.display(),
+                part.info().id,
+                part.kind().name
+            )
+        })
+        .collect();
+    match target {
+        Some(t) => t.write(text.as_bytes())?,
+        None => out.write_all(text.as_bytes()).map_err(stdout_error)?,
+    }
+    Ok(0)
+}
+
+fn format_of(f: FormatArg) -> Format {
+    match f {
+        FormatArg::Table => Format::Table,
+        FormatArg::Json => Format::Json,
+        FormatArg::Markdown => Format::Markdown,
+    }
+}
+
+fn kind_of(f: FormatArg) -> Kind {
+    match f {
+        FormatArg::Table => Kind::Text,
+        FormatArg::Json => Kind::Json,
+        FormatArg::Markdown => Kind::Markdown,
     }
 }
 
@@ -191,91 +303,182 @@ fn refuse_flags_with_board(stage: &StageArgs) -> Result<()> {
     Ok(())
 }
 
+/// A failed write to standard output: [`Error::OutputClosed`] when its reader went away.
 fn stdout_error(source: std::io::Error) -> Error {
-    Error::Io {
+    if source.kind() == std::io::ErrorKind::BrokenPipe {
+        return Error::OutputClosed;
+    }
+    Error::Write {
         path: PathBuf::from("<standard output>"),
         source,
     }
 }
 
 /// Write plain command output to `--output` or `out`.
-fn emit(cli: &Cli, out: &mut dyn Write, text: &str) -> Result<u8> {
-    match &cli.output {
-        Some(path) => std::fs::write(path, text).map_err(|source| Error::Io {
-            path: path.clone(),
-            source,
-        })?,
+fn emit(
+    inputs: &Inputs,
+    output: &OutputArgs,
+    kind: Kind,
+    out: &mut dyn Write,
+    text: &str,
+) -> Result<u8> {
+    match &output.output {
+        Some(path) => Plan::new(inputs, output.force)
+            .file(path, kind)?
+            .write(text.as_bytes())?,
         None => out.write_all(text.as_bytes()).map_err(stdout_error)?,
     }
     Ok(0)
 }
 
-/// Analyse each stage once, draw its picture when asked, and stream the report.
-#[allow(clippy::too_many_arguments)]
-fn report(
-    cli: &Cli,
-    yield_args: &YieldArgs,
-    out: &mut dyn Write,
-    format: Format,
-    color: bool,
-    board: Option<String>,
-    stages: &[Stage],
-) -> Result<u8> {
-    if let Some(dir) = &cli.plots {
-        std::fs::create_dir_all(dir).map_err(|source| Error::Io {
-            path: dir.to_path_buf(),
-            source,
-        })?;
-    }
-    let only = cli.only_problems;
-    let opts = Options {
-        yield_opts: yield_args.builds.map(|builds| YieldOptions {
-            builds,
-            seed: yield_args.seed.unwrap_or(DEFAULT_SEED),
-        }),
-        picture: cli.plots.is_some(),
-    };
-    let bar = progress::Bar::on_stderr(stages.len());
-    let plot_error: std::cell::RefCell<Option<Error>> = std::cell::RefCell::new(None);
-    let reports = stages.iter().enumerate().map(|(i, s)| {
-        let mut r = pipeline::stage_report(i + 1, s, &opts, &|done, total| {
-            bar.update(i + 1, &s.name, done, total)
-        });
-        if let (Some(dir), Some(picture)) = (&cli.plots, r.picture.take()) {
-            let path = dir.join(format!("stage-{}.svg", i + 1));
-            match write_svg(&picture, &path) {
-                Ok(()) => r.plot_svg = Some(path.display().to_string()),
+/// What a `size` or `audit` report needs beside its stages.
+struct ReportRun<'a> {
+    lib: &'a Library,
+    inputs: &'a Inputs,
+    args: &'a ReportArgs,
+    yield_args: &'a YieldArgs,
+    output: &'a OutputArgs,
+    terminal: Terminal,
+}
+
+impl ReportRun<'_> {
+    /// Check every output, read every stage once (nothing is written before each has been
+    /// read and resolved; the summary is gathered then), then stream the report while the
+    /// stages are read again.
+    fn report(&self, mut stages: Stages, out: &mut dyn Write) -> Result<u8> {
+        let args = self.args;
+        let color = match args.color {
+            ColorArg::Always => true,
+            ColorArg::Never => false,
+            ColorArg::Auto => {
+                self.terminal.stdout_is_tty
+                    && !self.terminal.no_color
+                    && self.output.output.is_none()
+            }
+        };
+        let mut plan = Plan::new(self.inputs, self.output.force);
+        let target = match &self.output.output {
+            Some(path) => Some(plan.file(path, kind_of(args.format))?),
+            None => None,
+        };
+        let plots = match &args.plots {
+            Some(dir) => Some(Plots::plan(&mut plan, dir, stages.len(), target.as_ref())?),
+            None => None,
+        };
+        let width = self.output.output.is_none().then(output_width).flatten();
+        let mut renderer = renderer_with_width(format_of(args.format), color, width);
+        let only = args.only_problems;
+        // Every stage is read and resolved once before anything is written: a bad stage is an
+        // input error (exit 2) with no report half written.
+        for s in stages.iter(self.lib)? {
+            s?;
+        }
+        if let Some(p) = &plots {
+            p.folder.create()?;
+        }
+        let opts = Options {
+            yield_opts: self.yield_args.builds.map(|builds| YieldOptions {
+                builds,
+                seed: self.yield_args.seed.unwrap_or(DEFAULT_SEED),
+            }),
+            picture: plots.is_some(),
+        };
+        let bar = progress::Bar::on_stderr(stages.len());
+        let name = stages.name();
+        // A stage that fails on the second read (the file changed in between) stops the
+        // stream; the error is returned and a report file is not written.
+        let failure: RefCell<Option<Error>> = RefCell::new(None);
+        let reports = stages.iter(self.lib)?.enumerate().map_while(|(i, s)| {
+            let made = s.and_then(|s| {
+                let mut r = pipeline::stage_report(i + 1, &s, &opts, &|done, total| {
+                    bar.update(i + 1, &s.name, done, total)
+                });
+                if let (Some(p), Some(picture)) = (&plots, r.picture.take()) {
+                    r.plot_svg = Some(p.draw(i, &picture)?);
+                }
+                Ok(r)
+            });
+            match made {
+                Ok(r) => Some(r),
                 Err(e) => {
-                    plot_error.borrow_mut().get_or_insert(e);
+                    *failure.borrow_mut() = Some(e);
+                    None
                 }
             }
-        }
-        r
-    });
-    let width = cli.output.is_none().then(output_width).flatten();
-    let mut renderer = renderer_with_width(format, color, width);
-    let show = |r: &StageReport| !only || r.verdict != Status::Pass;
-    let tail = match &cli.output {
-        Some(path) => {
-            let file = std::fs::File::create(path).map_err(|source| Error::Io {
-                path: path.clone(),
-                source,
-            })?;
-            let mut w = std::io::BufWriter::new(file);
-            let tail = write_report(&mut w, renderer.as_mut(), board, reports, show)
-                .and_then(|t| w.flush().map(|_| t));
-            tail.map_err(|source| Error::Io {
-                path: path.clone(),
-                source,
-            })?
-        }
-        None => write_report(out, renderer.as_mut(), board, reports, show).map_err(stdout_error)?,
-    };
-    bar.finish();
-    if let Some(e) = plot_error.into_inner() {
-        return Err(e);
+        });
+        let show = |r: &StageReport| !only || r.verdict != Status::Pass;
+        let tail = match &target {
+            Some(t) => {
+                let mut file = t.create()?;
+                let tail = write_report(&mut file, renderer.as_mut(), name, reports, show)
+                    .map_err(|e| file.error(e))?;
+                if let Some(e) = failure.take() {
+                    return Err(e);
+                }
+                file.commit()?;
+                tail
+            }
+            None => {
+                let tail = write_report(out, renderer.as_mut(), name, reports, show)
+                    .map_err(stdout_error)?;
+                if let Some(e) = failure.take() {
+                    return Err(e);
+                }
+                tail
+            }
+        };
+        bar.finish();
+        Ok(exit_code(tail.verdict, args.strict))
     }
-    Ok(exit_code(tail.verdict, cli.strict))
+}
+
+/// The SVG files of `--plots DIR`, checked, and the links the report gives them.
+struct Plots {
+    folder: Folder,
+    targets: Vec<Target>,
+    links: Vec<String>,
+}
+
+impl Plots {
+    /// `DIR/stage-N.svg` for each stage; links relative to the report file's folder when the
+    /// report goes to a file, else the paths as given.
+    fn plan(
+        plan: &mut Plan<'_>,
+        dir: &Path,
+        count: usize,
+        report: Option<&Target>,
+    ) -> Result<Plots> {
+        let folder = plan.folder(dir)?;
+        let mut targets = Vec::with_capacity(count);
+        let mut links = Vec::with_capacity(count);
+        for n in 1..=count {
+            let name = format!("stage-{n}.svg");
+            let target = plan.file_in(&folder, &name, Kind::Svg)?;
+            let link = match report.and_then(|r| r.path().parent()) {
+                Some(report_dir) => relative_link(report_dir, target.path()),
+                None => folder.shown().join(&name).display().to_string(),
+            };
+            targets.push(target);
+            links.push(link);
+        }
+        Ok(Plots {
+            folder,
+            targets,
+            links,
+        })
+    }
+
+    /// Draw the picture of stage `i` (from 0); returns its link.
+    fn draw(&self, i: usize, picture: &crate::picture::Picture) -> Result<String> {
+        let (Some(target), Some(link)) = (self.targets.get(i), self.links.get(i)) else {
+            return Err(Error::Usage(format!(
+                "stage {} was not in the board when its plots were planned (did the file change?)",
+                i + 1
+            )));
+        };
+        write_svg(picture, target)?;
+        Ok(link.clone())
+    }
 }
 
 /// Exit code of a verdict: 1 on a failing stage, or a marginal one under `--strict`.
@@ -287,35 +490,33 @@ pub fn exit_code(verdict: Status, strict: bool) -> u8 {
     }
 }
 
-/// Write a picture's SVG to `path`.
-fn write_svg(picture: &crate::picture::Picture, path: &Path) -> Result<()> {
-    let svg = crate::plot::picture_svg(picture)
-        .map_err(|e| Error::invalid(path.display().to_string(), format!("cannot draw: {e}")))?;
-    std::fs::write(path, svg).map_err(|source| Error::Io {
-        path: path.to_path_buf(),
-        source,
-    })
+/// Write a picture's SVG.
+fn write_svg(picture: &crate::picture::Picture, target: &Target) -> Result<()> {
+    let svg = crate::plot::picture_svg(picture).map_err(|e| {
+        Error::invalid(
+            target.shown().display().to_string(),
+            format!("cannot draw: {e}"),
+        )
+    })?;
+    target.write(svg.as_bytes())
 }
 
-/// Analyse one stage and write its SVG to `path`.
-fn write_stage_svg(s: &Stage, path: &Path) -> Result<()> {
+/// Analyse one stage and write its SVG.
+fn write_stage_svg(s: &Stage, target: &Target) -> Result<()> {
     let a = crate::analysis::analyse(s);
     let picture =
         pipeline::picture(s, &a).map_err(|e| Error::invalid(format!("stage `{}`", s.name), e))?;
-    write_svg(&picture, path)
+    write_svg(&picture, target)
 }
 
-/// `out.svg` -> `out-N.svg`, beside it.
+/// `out.svg` -> `out-N.svg`, beside it; always `.svg`, whatever `out` ends with, so that the
+/// files of a board cannot take the name of a JSON input.
 fn numbered(out: &Path, n: usize) -> PathBuf {
     let stem = out
         .file_stem()
         .map(|s| s.to_string_lossy().into_owned())
         .unwrap_or_else(|| "stage".into());
-    let ext = out
-        .extension()
-        .map(|e| e.to_string_lossy().into_owned())
-        .unwrap_or_else(|| "svg".into());
-    out.with_file_name(format!("{stem}-{n}.{ext}"))
+    out.with_file_name(format!("{stem}-{n}.svg"))
 }
 
 /// Decide colour for `--color auto` from the real terminal and environment.

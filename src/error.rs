@@ -100,6 +100,27 @@ pub enum Error {
         /// The operating system's reason.
         source: std::io::Error,
     },
+    /// A file (or standard output) could not be written.
+    #[error("{}: cannot write: {source}", path.display())]
+    Write {
+        /// The file, or `<standard output>`.
+        path: PathBuf,
+        /// The operating system's reason.
+        source: std::io::Error,
+    },
+    /// Standard output was closed by its reader (`pinlow audit b.json | head -1`): not a fault
+    /// of the input; the binary ends quietly with status 141, as a process ended by SIGPIPE.
+    #[error("standard output was closed")]
+    OutputClosed,
+    /// An error met while using a source that the message must name first, e.g.
+    /// `PINLOW_PARTS entry 2 (/x/y): ...`.
+    #[error("{context}: {source}")]
+    Context {
+        /// What was being read.
+        context: String,
+        /// What went wrong there.
+        source: Box<Error>,
+    },
     /// A JSON file is malformed or does not fit its form (unknown key, wrong type, missing field).
     #[error("{place}: {message}")]
     Json {
@@ -193,6 +214,12 @@ impl Error {
         if let Error::Many(errors) = self {
             return Error::Many(errors.into_iter().map(|e| e.locate_with(locate)).collect());
         }
+        if let Error::Context { context, source } = self {
+            return Error::Context {
+                context,
+                source: Box::new(source.locate_with(locate)),
+            };
+        }
         let mut token = None;
         if let Some(Place::Json {
             file,
@@ -226,9 +253,19 @@ impl Error {
     /// Turn a serde_json error met while reading `file` at `path` into an [`Error::Json`] that
     /// gives line, column and JSON path, and says which form the key takes.
     pub fn from_json(file: &str, path: &str, err: &serde_json::Error) -> Self {
+        Self::from_json_at(file, path, (err.line(), err.column()), err)
+    }
+
+    /// As [`Error::from_json`], with the (line, column) to name given (line 0: none).
+    pub fn from_json_at(
+        file: &str,
+        path: &str,
+        (line, column): (usize, usize),
+        err: &serde_json::Error,
+    ) -> Self {
         let path = path.trim_end_matches(".?").trim_end_matches('?');
         let path = if path == "." { "" } else { path };
-        let line_col = (err.line() > 0).then(|| (err.line(), err.column()));
+        let line_col = (line > 0).then_some((line, column));
         // serde appends " at line L column C" to its message; the place says where already.
         let text = err.to_string();
         let mut message = match text.rfind(" at line ") {
@@ -313,11 +350,32 @@ pub fn join_path(prefix: &str, inner: &str) -> String {
 /// Deserialize `text` (the contents of `file`) into `T`, with errors that name line, column and
 /// JSON path.
 pub fn parse_json<T: serde::de::DeserializeOwned>(file: &str, text: &str) -> Result<T> {
-    let text = strip_bom(text);
+    parse_json_at(file, strip_bom(text), "", &|line, column| (line, column))
+}
+
+/// Deserialize `text`, one value of a larger file, into `T`: `prefix` is the value's JSON path
+/// in the file (`stages[7]`, empty for the whole file) and `shift` turns a (line, column) inside
+/// `text` into one of the file.
+pub fn parse_json_at<T: serde::de::DeserializeOwned>(
+    file: &str,
+    text: &str,
+    prefix: &str,
+    shift: &dyn Fn(usize, usize) -> (usize, usize),
+) -> Result<T> {
+    let at = |e: &serde_json::Error| match e.line() {
+        0 => (0, 0),
+        line => shift(line, e.column()),
+    };
     let mut de = serde_json::Deserializer::from_str(text);
     let value: T = serde_path_to_error::deserialize(&mut de).map_err(|e| {
-        let path = e.path().to_string();
-        let mut err = Error::from_json(file, &path, e.inner());
+        let path = join_path(
+            prefix,
+            e.path()
+                .to_string()
+                .trim_end_matches(".?")
+                .trim_end_matches('?'),
+        );
+        let mut err = Error::from_json_at(file, &path, at(e.inner()), e.inner());
         if let Error::Json { message, .. } = &mut err {
             if non_finite_at(text, e.inner().line(), e.inner().column()) {
                 message.push_str(" (JSON has no NaN or Infinity: give a finite number)");
@@ -325,7 +383,8 @@ pub fn parse_json<T: serde::de::DeserializeOwned>(file: &str, text: &str) -> Res
         }
         err
     })?;
-    de.end().map_err(|e| Error::from_json(file, "", &e))?;
+    de.end()
+        .map_err(|e| Error::from_json_at(file, prefix, at(&e), &e))?;
     Ok(value)
 }
 

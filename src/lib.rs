@@ -30,6 +30,7 @@ pub mod eseries;
 pub mod fields;
 pub mod jsonpos;
 pub mod load;
+pub mod outputs;
 pub mod parts;
 pub mod picture;
 pub mod pipeline;

@@ -4,8 +4,9 @@ use std::io::Write;
 use std::process::ExitCode;
 
 use clap::Parser;
-use pinlow::app::{run, terminal_facts};
+use pinlow::app::{run, terminal_facts, OUTPUT_CLOSED_EXIT};
 use pinlow::cli::Cli;
+use pinlow::Error;
 
 fn main() -> ExitCode {
     let cli = Cli::parse();
@@ -20,10 +21,14 @@ fn main() -> ExitCode {
         &mut out,
     );
     let flushed = out.flush();
+    let closed = |e: &std::io::Error| e.kind() == std::io::ErrorKind::BrokenPipe;
     match (result, flushed) {
+        // The reader of standard output went away: end quietly, as SIGPIPE would.
+        (Err(Error::OutputClosed), _) => ExitCode::from(OUTPUT_CLOSED_EXIT),
+        (Ok(_), Err(e)) if closed(&e) => ExitCode::from(OUTPUT_CLOSED_EXIT),
         (Ok(code), Ok(())) => ExitCode::from(code),
         (Ok(_), Err(e)) => {
-            eprintln!("pinlow: error: cannot write the output: {e}");
+            eprintln!("pinlow: error: <standard output>: cannot write: {e}");
             ExitCode::from(2)
         }
         (Err(err), _) => {

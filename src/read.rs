@@ -1,20 +1,17 @@
-//! Reading the user's files with a size cap: a board or part file is small text, and reading
-//! a huge file or an endless one (`/dev/zero`, a pipe) must fail cleanly instead of exhausting
-//! memory or hanging.
+//! Reading part files with a size cap: a part file is small text, and reading a huge file or an
+//! endless one (`/dev/zero`, a pipe) must fail cleanly instead of exhausting memory or hanging.
+//! Board files have no cap: they are read as a stream (`board::stream`).
 
 use std::io::Read;
 use std::path::Path;
 
 use crate::error::{Error, Result};
 
-/// Largest board file read, bytes. A board of a few hundred stages is a few hundred kilobytes;
-/// 16 MiB holds about 100 000 stages, while its report (about 5 kB of JSON a stage) still fits
-/// in memory.
-pub const BOARD_FILE_LIMIT: u64 = 16 * 1024 * 1024;
 /// Largest part file read, bytes (a part file is about 1 kB).
 pub const PART_FILE_LIMIT: u64 = 1024 * 1024;
 
-/// The text of `path`, refused when it holds more than `limit` bytes.
+/// The text of `path`, refused when it holds more than `limit` bytes. A UTF-8 byte-order mark
+/// at the start, as some editors write, is dropped.
 pub fn read_text(path: &Path, limit: u64) -> Result<String> {
     let io = |source| Error::Io {
         path: path.to_path_buf(),
@@ -42,16 +39,21 @@ pub fn read_text(path: &Path, limit: u64) -> Result<String> {
     if bytes.len() as u64 > limit {
         return Err(too_large());
     }
+    let bom = if bytes.starts_with(BOM) { BOM.len() } else { 0 };
+    bytes.drain(..bom);
     String::from_utf8(bytes).map_err(|e| {
         Error::invalid(
             path.display().to_string(),
             format!(
                 "the file is not UTF-8 text (invalid byte at offset {}); save it as UTF-8 JSON",
-                e.utf8_error().valid_up_to()
+                e.utf8_error().valid_up_to() + bom
             ),
         )
     })
 }
+
+/// The UTF-8 byte-order mark.
+const BOM: &[u8] = b"\xEF\xBB\xBF";
 
 /// `16 MiB`, or a byte count below 1 MiB.
 fn size_words(bytes: u64) -> String {
@@ -81,7 +83,7 @@ mod tests {
         assert_eq!(read_text(&path, 100).expect("read"), "{\"a\": 1}");
         let err = read_text(&path, 4).expect_err("over the limit").to_string();
         assert!(err.contains("larger than 4 bytes"), "{err}");
-        assert_eq!(size_words(BOARD_FILE_LIMIT), "16 MiB");
+        assert_eq!(size_words(PART_FILE_LIMIT), "1 MiB");
     }
 
     #[test]
@@ -92,6 +94,16 @@ mod tests {
             let err = read_text(zero, 1024).expect_err("refused").to_string();
             assert!(err.contains("larger than 1024 bytes"), "{err}");
         }
+    }
+
+    #[test]
+    fn a_byte_order_mark_is_dropped() {
+        let path = temp("bom.json", b"\xEF\xBB\xBF{\"a\": 1}");
+        assert_eq!(read_text(&path, 100).expect("read"), "{\"a\": 1}");
+        // Offsets of bad bytes still count from the start of the file.
+        let path = temp("bom-latin1.json", b"\xEF\xBB\xBF{\"a\": \"\xe9\"}");
+        let err = read_text(&path, 100).expect_err("refused").to_string();
+        assert!(err.contains("offset 10"), "{err}");
     }
 
     #[test]

@@ -165,7 +165,28 @@ fn output_file_receives_the_report() {
     assert_eq!(code, 1);
     assert!(out.is_empty());
     let text = std::fs::read_to_string(&file).expect("written");
-    assert!(text.starts_with("# Board: greenhouse controller"), "{text}");
+    // The first line marks the file as pinlow's own (so a later run may replace it); the
+    // report follows unchanged.
+    let (marker, report) = text.split_once('\n').expect("two lines at least");
+    assert_eq!(
+        marker,
+        format!("<!-- written by pinlow {} -->", env!("CARGO_PKG_VERSION"))
+    );
+    assert!(
+        report.starts_with("# Board: greenhouse controller"),
+        "{text}"
+    );
+    // Written again over its own output: fine, and the same bytes.
+    let (code, _, err) = run(&[
+        "audit",
+        "examples/greenhouse.json",
+        "--format",
+        "markdown",
+        "--output",
+        &file_s,
+    ]);
+    assert_eq!(code, 1, "{err}");
+    assert_eq!(std::fs::read_to_string(&file).expect("written"), text);
     std::fs::remove_dir_all(&dir).ok();
 }
 

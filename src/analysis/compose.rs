@@ -105,7 +105,10 @@ pub fn compose(stage: &Stage, a: &Analysis) -> Option<Remedy> {
     // Every edit first; should that leave the stage worse than it was (a pull-down that starves
     // the base, say), only the edits that answer failing checks; failing that, no change.
     let status_of = |id: CheckId| a.finding(id).map(|f| f.status).unwrap_or(Status::Pass);
-    let all: Vec<Edit> = proposals.iter().flat_map(|p| p.edits.iter().cloned()).collect();
+    let all: Vec<Edit> = proposals
+        .iter()
+        .flat_map(|p| p.edits.iter().cloned())
+        .collect();
     let failing: Vec<Edit> = proposals
         .iter()
         .filter(|p| status_of(p.check) == Status::Fail)

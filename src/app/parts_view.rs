@@ -51,7 +51,8 @@ pub fn list(lib: &Library, format: Format) -> String {
                 .collect();
             format!(
                 "{}\n",
-                crate::report::escape::json_pretty(&items).unwrap_or_default()
+                crate::report::escape::json_pretty(&serde_json::json!({ "parts": items }))
+                    .unwrap_or_default()
             )
         }
         Format::Markdown => {
@@ -99,7 +100,10 @@ pub fn show(p: &dyn Switch, format: Format) -> String {
                 .collect();
             format!(
                 "{}\n",
-                crate::report::escape::json_pretty(&map).unwrap_or_default()
+                crate::report::escape::json_pretty(
+                    &serde_json::json!({ "id": info.id, "fields": map })
+                )
+                .unwrap_or_default()
             )
         }
         Format::Markdown => {

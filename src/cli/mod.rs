@@ -18,10 +18,14 @@ const AFTER_HELP: &str = "Examples:
   pinlow size --supply 12V --logic-high 3V3 --part demo-npn-40v --load relay --coil 400 --clamp diode
   pinlow audit examples/greenhouse.json
   pinlow audit examples/greenhouse.json --format markdown --output review.md
+  cat examples/greenhouse.json | pinlow audit -
   pinlow parts list
 
+Each command takes only its own flags (see `pinlow COMMAND --help`).
+Files written with --output are written whole or not at all, never over an input, and never over
+a file pinlow did not write unless --force is given.
 Exit codes: 0 every stage passes or is marginal; 1 a stage fails (with --strict, marginal too);
-2 the input could not be used.
+2 the input could not be used; 141 standard output was closed early (as by SIGPIPE).
 pinlow checks the driver stage only: follow local codes and licensed practice.";
 
 /// The whole command line.
@@ -31,28 +35,65 @@ pub struct Cli {
     /// What to do.
     #[command(subcommand)]
     pub command: Command,
+}
+
+/// Where parts come from, beside the shipped ones.
+#[derive(Debug, Clone, Default, Args)]
+pub struct LibraryArgs {
     /// Add part files: a folder of *.json or one file; repeatable; later ones override by id.
     /// The PINLOW_PARTS variable (a path list) is read first.
-    #[arg(long = "parts", value_name = "DIR", global = true)]
+    #[arg(long = "parts", value_name = "PATH", help_heading = "Parts")]
     pub parts: Vec<PathBuf>,
+}
+
+/// How a report is drawn (`size`, `audit`).
+#[derive(Debug, Clone, Args)]
+pub struct ReportArgs {
     /// Output format.
-    #[arg(long, value_enum, default_value_t = FormatArg::Table, global = true)]
+    #[arg(long, value_enum, default_value_t = FormatArg::Table, help_heading = "Report")]
     pub format: FormatArg,
     /// Exit 1 on a marginal stage too.
-    #[arg(long, global = true)]
+    #[arg(long, help_heading = "Report")]
     pub strict: bool,
     /// Colour in tables: auto (a terminal, NO_COLOR unset), always or never.
-    #[arg(long, value_enum, default_value_t = ColorArg::Auto, global = true)]
+    #[arg(long, value_enum, default_value_t = ColorArg::Auto, help_heading = "Report")]
     pub color: ColorArg,
     /// Print only the stages that are not a pass (the exit code still counts every stage).
-    #[arg(long, global = true)]
+    #[arg(long, help_heading = "Report")]
     pub only_problems: bool,
     /// Draw each stage's operating point as DIR/stage-N.svg and link it from the report.
-    #[arg(long, value_name = "DIR", global = true)]
+    #[arg(long, value_name = "DIR", help_heading = "Report")]
     pub plots: Option<PathBuf>,
-    /// Write the report to FILE instead of standard output.
-    #[arg(long, short = 'o', value_name = "FILE", global = true)]
+}
+
+/// Where a command's output goes.
+#[derive(Debug, Clone, Default, Args)]
+pub struct OutputArgs {
+    /// Write to FILE instead of standard output: whole or not at all, never over an input.
+    #[arg(long, short = 'o', value_name = "FILE", help_heading = "Output")]
     pub output: Option<PathBuf>,
+    /// Replace existing files that pinlow did not write (its own outputs are replaced without
+    /// asking; inputs never are).
+    #[arg(long, help_heading = "Output")]
+    pub force: bool,
+}
+
+/// Where `plot` writes its SVG files.
+#[derive(Debug, Clone, Args)]
+pub struct PlotOutputArgs {
+    /// The SVG file; for a board of several stages FILE-1.svg, FILE-2.svg, ... beside it.
+    #[arg(
+        long,
+        short = 'o',
+        value_name = "FILE.svg",
+        required = true,
+        help_heading = "Output"
+    )]
+    pub output: PathBuf,
+    /// Replace existing files that pinlow did not write (its own outputs are replaced without
+    /// asking; inputs never are).
+    #[arg(long, help_heading = "Output")]
+    pub force: bool,
 }
 
 /// The commands.
@@ -72,15 +113,27 @@ pub enum Command {
         /// Monte Carlo yield beside the worst case.
         #[command(flatten)]
         yield_args: YieldArgs,
+        /// Parts beside the shipped ones.
+        #[command(flatten)]
+        library: LibraryArgs,
+        /// How the report is drawn.
+        #[command(flatten)]
+        report: ReportArgs,
+        /// Where it goes.
+        #[command(flatten)]
+        output: OutputArgs,
     },
     /// Audit every stage of a board file, or one stage given by flags with --base-resistor.
     #[command(after_help = "Examples:
   pinlow audit examples/greenhouse.json
   pinlow audit examples/greenhouse.json --format json --strict
+  pinlow audit examples/greenhouse.json --format markdown --plots plots --output review.md
+  cat examples/greenhouse.json | pinlow audit -
   pinlow audit --supply 12V --logic-high 3V3 --part demo-npn-40v --load relay --coil 400 --clamp diode --base-resistor 1k --pull-down 10k
   pinlow audit examples/greenhouse.json --yield 1000000 --seed 7")]
     Audit {
-        /// A board file (files.md). Without it, the stage flags describe one stage.
+        /// A board file (files.md), `-` for standard input. Without it, the stage flags
+        /// describe one stage.
         #[arg(value_name = "FILE")]
         board: Option<PathBuf>,
         /// The stage, when no board file is given.
@@ -89,6 +142,15 @@ pub enum Command {
         /// Monte Carlo yield beside the worst case.
         #[command(flatten)]
         yield_args: YieldArgs,
+        /// Parts beside the shipped ones.
+        #[command(flatten)]
+        library: LibraryArgs,
+        /// How the report is drawn.
+        #[command(flatten)]
+        report: ReportArgs,
+        /// Where it goes.
+        #[command(flatten)]
+        output: OutputArgs,
     },
     /// Draw an SVG of one stage (stage flags) or of each stage of a board file: output curves,
     /// load line, nominal and worst-case operating points, and overdrive against ambient.
@@ -96,12 +158,18 @@ pub enum Command {
   pinlow plot --supply 12V --logic-high 3V3 --part demo-npn-40v --load relay --coil 400 --clamp diode --output relay.svg
   pinlow plot examples/greenhouse.json --output greenhouse.svg   (one file per stage: greenhouse-1.svg, ...)")]
     Plot {
-        /// A board file; without it, the stage flags describe one stage.
+        /// A board file, `-` for standard input; without it, the stage flags describe one stage.
         #[arg(value_name = "FILE")]
         board: Option<PathBuf>,
         /// The stage, when no board file is given.
         #[command(flatten)]
         stage: StageArgs,
+        /// Parts beside the shipped ones.
+        #[command(flatten)]
+        library: LibraryArgs,
+        /// Where the SVG files go.
+        #[command(flatten)]
+        output: PlotOutputArgs,
     },
     /// List, show or check part files.
     #[command(
@@ -115,21 +183,48 @@ pub enum Command {
 #[derive(Debug, Subcommand)]
 pub enum PartsCommand {
     /// Table of every known part.
-    #[command(after_help = "Example:\n  pinlow parts list --parts ./my-parts")]
-    List,
+    #[command(
+        after_help = "Examples:\n  pinlow parts list --parts ./my-parts\n  pinlow parts list --format json --output parts-list.json"
+    )]
+    List {
+        /// Output format.
+        #[arg(long, value_enum, default_value_t = FormatArg::Table)]
+        format: FormatArg,
+        /// Parts beside the shipped ones.
+        #[command(flatten)]
+        library: LibraryArgs,
+        /// Where it goes.
+        #[command(flatten)]
+        output: OutputArgs,
+    },
     /// Every figure of one part.
     #[command(after_help = "Example:\n  pinlow parts show demo-npn-40v")]
     Show {
         /// The part id.
         #[arg(value_name = "ID")]
         id: String,
+        /// Output format.
+        #[arg(long, value_enum, default_value_t = FormatArg::Table)]
+        format: FormatArg,
+        /// Parts beside the shipped ones.
+        #[command(flatten)]
+        library: LibraryArgs,
+        /// Where it goes.
+        #[command(flatten)]
+        output: OutputArgs,
     },
-    /// Validate part files; names the file and JSON path of each problem.
-    #[command(after_help = "Example:\n  pinlow parts check my-parts/*.json")]
+    /// Validate part files and folders; names the file and JSON path of each problem, and an
+    /// id defined by two of them.
+    #[command(
+        after_help = "Examples:\n  pinlow parts check my-parts/*.json\n  pinlow parts check my-parts"
+    )]
     Check {
-        /// Part files to check.
-        #[arg(value_name = "FILE", required = true)]
+        /// Part files or folders of them to check.
+        #[arg(value_name = "PATH", required = true)]
         files: Vec<PathBuf>,
+        /// Where the list of good files goes.
+        #[command(flatten)]
+        output: OutputArgs,
     },
 }
 

@@ -154,9 +154,17 @@ impl Library {
     /// The shipped parts overlaid by each path in order (a folder: every `*.json` in it; a file:
     /// that file). Two files of one folder with the same id are an error; a later path overrides.
     pub fn load(paths: &[PathBuf]) -> Result<Library> {
+        let sources: Vec<PartsPath> = paths.iter().cloned().map(PartsPath::given).collect();
+        Library::load_from(&sources)
+    }
+
+    /// As [`Library::load`], each error of a path led by the path's context when it has one
+    /// (`PINLOW_PARTS entry 2 (/x/y): ...`).
+    pub fn load_from(sources: &[PartsPath]) -> Result<Library> {
         let mut lib = Library::builtin()?;
-        for path in paths {
-            for part in load_path(path)? {
+        for source in sources {
+            let parts = load_path(&source.path).map_err(|e| source.name_in(e))?;
+            for part in parts {
                 lib.insert(part);
             }
         }
@@ -220,6 +228,86 @@ impl Library {
     }
 }
 
+/// A file or folder of parts given by the user, and how messages name where it came from.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct PartsPath {
+    /// The file or folder.
+    pub path: PathBuf,
+    /// Leads every error of this path, e.g. `PINLOW_PARTS entry 2 (/x/y)`; `None` for a
+    /// `--parts` flag (its errors name the path already).
+    pub context: Option<String>,
+}
+
+impl PartsPath {
+    /// A path given on the command line.
+    pub fn given(path: PathBuf) -> PartsPath {
+        PartsPath {
+            path,
+            context: None,
+        }
+    }
+
+    /// The paths of a `PINLOW_PARTS` value (a path list; empty entries skipped), each named by
+    /// its place in the list, from 1.
+    pub fn from_env(value: &std::ffi::OsStr) -> Vec<PartsPath> {
+        std::env::split_paths(value)
+            .enumerate()
+            .filter(|(_, p)| !p.as_os_str().is_empty())
+            .map(|(i, path)| PartsPath {
+                context: Some(format!("PINLOW_PARTS entry {} ({})", i + 1, path.display())),
+                path,
+            })
+            .collect()
+    }
+
+    fn name_in(&self, err: Error) -> Error {
+        match &self.context {
+            Some(context) => Error::Context {
+                context: context.clone(),
+                source: Box::new(err),
+            },
+            None => err,
+        }
+    }
+}
+
+/// The part files of a folder, sorted by name: every `*.json` entry. A `*.json` entry that is
+/// not a readable file, a symbolic link that leads nowhere (dangling or looping) and an entry
+/// that cannot be listed are errors naming it, never skipped.
+pub fn folder_files(dir: &Path) -> Result<Vec<PathBuf>> {
+    let io = |path: &Path| {
+        let path = path.to_path_buf();
+        move |source| Error::Io { path, source }
+    };
+    let mut files: Vec<PathBuf> = Vec::new();
+    for entry in std::fs::read_dir(dir).map_err(io(dir))? {
+        let entry = entry.map_err(io(dir))?;
+        let p = entry.path();
+        let link = std::fs::symlink_metadata(&p).map_err(io(&p))?;
+        let target = match std::fs::metadata(&p) {
+            Ok(meta) => meta,
+            Err(e) if link.file_type().is_symlink() => {
+                return Err(Error::invalid(
+                    p.display().to_string(),
+                    format!("a symbolic link that leads nowhere (dangling or looping: {e}); remove it or fix its target"),
+                ))
+            }
+            Err(e) => return Err(io(&p)(e)),
+        };
+        if p.extension().is_some_and(|e| e == "json") {
+            if !target.is_file() {
+                return Err(Error::invalid(
+                    p.display().to_string(),
+                    "named like a part file but not a file; every *.json in a parts folder is read as a part",
+                ));
+            }
+            files.push(p);
+        }
+    }
+    files.sort();
+    Ok(files)
+}
+
 /// Levenshtein distance of two short strings, by characters.
 fn edit_distance(a: &str, b: &str) -> usize {
     let b: Vec<char> = b.chars().collect();
@@ -251,22 +339,7 @@ fn load_path(path: &Path) -> Result<Vec<SharedSwitch>> {
     if !meta.is_dir() {
         return Ok(vec![check_file(path)?]);
     }
-    let entries = std::fs::read_dir(path).map_err(|source| Error::Io {
-        path: path.to_path_buf(),
-        source,
-    })?;
-    let mut files: Vec<PathBuf> = Vec::new();
-    for entry in entries {
-        let entry = entry.map_err(|source| Error::Io {
-            path: path.to_path_buf(),
-            source,
-        })?;
-        let p = entry.path();
-        if p.extension().is_some_and(|e| e == "json") && p.is_file() {
-            files.push(p);
-        }
-    }
-    files.sort();
+    let files = folder_files(path)?;
     let mut seen: BTreeMap<String, PathBuf> = BTreeMap::new();
     let mut parts = Vec::new();
     for file in files {
@@ -291,31 +364,45 @@ pub fn check_file(path: &Path) -> Result<SharedSwitch> {
     read_part(&label, &text, PartSource::File(path.to_path_buf()))
 }
 
-/// Read and validate part files, each on its own; also refuse two files that define one id.
-/// Returns the parts read, and every problem found.
-pub fn check_files(paths: &[PathBuf]) -> (Vec<(PathBuf, SharedSwitch)>, Vec<Error>) {
-    let mut parts: Vec<(PathBuf, SharedSwitch)> = Vec::new();
+/// Check part files and folders as `pinlow parts check` does: every file on its own, then ids
+/// across all of them (any case). Returns each good file with its part, and every problem (a bad
+/// file, a bad folder entry, an id defined by two files).
+pub fn check_paths(paths: &[PathBuf]) -> (Vec<(PathBuf, SharedSwitch)>, Vec<Error>) {
+    let mut good = Vec::new();
     let mut errors = Vec::new();
-    for p in paths {
-        match check_file(p) {
-            Ok(part) => {
-                let id = part.info().id.to_lowercase();
-                if let Some((first, _)) =
-                    parts.iter().find(|(_, q)| q.info().id.to_lowercase() == id)
-                {
-                    errors.push(Error::DuplicatePart {
-                        id: part.info().id.clone(),
-                        first: first.display().to_string(),
-                        second: p.display().to_string(),
-                    });
-                } else {
-                    parts.push((p.clone(), part));
+    let mut seen: BTreeMap<String, PathBuf> = BTreeMap::new();
+    for path in paths {
+        let files = match std::fs::metadata(path) {
+            Ok(meta) if meta.is_dir() => match folder_files(path) {
+                Ok(files) => files,
+                Err(e) => {
+                    errors.push(e);
+                    continue;
                 }
+            },
+            _ => vec![path.clone()],
+        };
+        for file in files {
+            match check_file(&file) {
+                Ok(part) => {
+                    let id = part.info().id.clone();
+                    match seen.get(&id.to_lowercase()) {
+                        Some(first) => errors.push(Error::DuplicatePart {
+                            id,
+                            first: first.display().to_string(),
+                            second: file.display().to_string(),
+                        }),
+                        None => {
+                            seen.insert(id.to_lowercase(), file.clone());
+                        }
+                    }
+                    good.push((file, part));
+                }
+                Err(e) => errors.push(e),
             }
-            Err(e) => errors.push(e),
         }
     }
-    (parts, errors)
+    (good, errors)
 }
 
 #[cfg(test)]
@@ -347,6 +434,74 @@ mod tests {
         for part in lib.iter() {
             assert!(!part.info().provenance.is_empty());
         }
+    }
+
+    fn scratch(name: &str) -> PathBuf {
+        let dir = std::env::temp_dir().join(format!("pinlow-lib-{}-{name}", std::process::id()));
+        let _ = std::fs::remove_dir_all(&dir);
+        std::fs::create_dir_all(&dir).expect("temp dir");
+        dir
+    }
+
+    #[cfg(unix)]
+    #[test]
+    fn dangling_and_looping_links_in_a_folder_are_errors() {
+        let dir = scratch("links");
+        let good = Path::new(env!("CARGO_MANIFEST_DIR")).join("parts/2n3904.json");
+        std::fs::copy(&good, dir.join("a.json")).expect("copy");
+        std::os::unix::fs::symlink(dir.join("missing.json"), dir.join("b.json")).expect("link");
+        let err = Library::load(std::slice::from_ref(&dir))
+            .expect_err("dangling")
+            .to_string();
+        assert!(
+            err.contains("b.json") && err.contains("leads nowhere"),
+            "{err}"
+        );
+        std::fs::remove_file(dir.join("b.json")).expect("unlink");
+        std::os::unix::fs::symlink(dir.join("c.json"), dir.join("c.json")).expect("loop");
+        let err = Library::load(std::slice::from_ref(&dir))
+            .expect_err("looping")
+            .to_string();
+        assert!(
+            err.contains("c.json") && err.contains("leads nowhere"),
+            "{err}"
+        );
+        std::fs::remove_file(dir.join("c.json")).expect("unlink");
+        assert!(Library::load(std::slice::from_ref(&dir)).is_ok());
+        std::fs::remove_dir_all(&dir).ok();
+    }
+
+    #[test]
+    fn errors_of_the_variable_name_its_entry() {
+        let sources = PartsPath::from_env(std::ffi::OsStr::new("::/no/such/parts"));
+        assert_eq!(sources.len(), 1);
+        let err = Library::load_from(&sources)
+            .expect_err("missing")
+            .to_string();
+        assert!(
+            err.starts_with("PINLOW_PARTS entry 3 (/no/such/parts): /no/such/parts: cannot read"),
+            "{err}"
+        );
+    }
+
+    #[test]
+    fn check_names_an_id_defined_by_two_files() {
+        let dir = scratch("dup");
+        let good = Path::new(env!("CARGO_MANIFEST_DIR")).join("parts/2n3904.json");
+        std::fs::copy(&good, dir.join("one.json")).expect("copy");
+        std::fs::copy(&good, dir.join("two.json")).expect("copy");
+        let (ok, errors) = check_paths(&[dir.join("one.json"), dir.join("two.json")]);
+        assert_eq!(ok.len(), 2);
+        let text: Vec<String> = errors.iter().map(ToString::to_string).collect();
+        assert_eq!(text.len(), 1, "{text:?}");
+        assert!(
+            text.first()
+                .is_some_and(|t| t.contains("`2N3904` is defined twice")
+                    && t.contains("one.json")
+                    && t.contains("two.json")),
+            "{text:?}"
+        );
+        std::fs::remove_dir_all(&dir).ok();
     }
 
     #[test]

@@ -4,7 +4,10 @@
 mod library;
 pub mod points;
 
-pub use library::{builtin_sources, check_file, check_files, read_part, Library, PartSource};
+pub use library::{
+    builtin_sources, check_file, check_paths, folder_files, read_part, Library, PartSource,
+    PartsPath,
+};
 
 use crate::error::{Error, Place, Result};
 use crate::quantity::limits::{show_number, Span};
