@@ -4,10 +4,10 @@
 
 use std::time::Instant;
 
-use pinlow::analysis::{analyse, fixes::propose_fixes};
+use pinlow::analysis::analyse;
 use pinlow::board::parse_board;
 use pinlow::parts::Library;
-use pinlow::report::StageReport;
+use pinlow::pipeline::{stage_report, Options};
 
 /// A board of `n` stages cycling through the load kinds; `sized` leaves RB out.
 fn board_json(n: usize, sized: bool) -> String {
@@ -67,21 +67,19 @@ fn main() {
             let mut fails = 0usize;
             for s in &board.stages {
                 let a = analyse(s);
-                fails += usize::from(a.verdict == pinlow::analysis::Status::Fail);
+                fails += usize::from(a.verdict == pinlow::check::Status::Fail);
                 std::hint::black_box(&a);
             }
             let engine = t1.elapsed();
             let t2 = Instant::now();
             let mut bytes = 0usize;
-            for s in &board.stages {
-                let a = analyse(s);
-                let mut r = StageReport::from_analysis(s, &a);
-                r.fixes = propose_fixes(s, &a);
+            for (i, s) in board.stages.iter().enumerate() {
+                let r = stage_report(i + 1, s, &Options::default(), &|_, _| {});
                 bytes += serde_json::to_string(&r).map(|t| t.len()).unwrap_or(0);
             }
             let full = t2.elapsed();
             println!(
-                "{n:>7} stages, RB {}: parse {:.0} stages/s; engine {:.0} stages/s ({fails} fail); engine + fixes + JSON {:.0} stages/s ({} MB); peak RSS {} MiB",
+                "{n:>7} stages, RB {}: parse {:.0} stages/s; engine {:.0} stages/s ({fails} fail); engine + remedy + JSON {:.0} stages/s ({} MB); peak RSS {} MiB",
                 if sized { "sized" } else { "given" },
                 n as f64 / parse.as_secs_f64(),
                 n as f64 / engine.as_secs_f64(),

@@ -64,7 +64,19 @@ fn yield_of(
     }
 }
 
-/// The picture of a stage from its analysis.
+/// Analyse every stage and gather the report in memory (small boards, tests).
+pub fn audit(board: Option<String>, stages: &[Stage]) -> crate::report::Report {
+    crate::report::Report {
+        board,
+        stages: stages
+            .iter()
+            .enumerate()
+            .map(|(i, s)| stage_report(i + 1, s, &Options::default(), &|_, _| {}))
+            .collect(),
+    }
+}
+
+/// The picture of a stage from its analysis; the first panel's caption names the stage.
 pub fn picture(stage: &Stage, a: &Analysis) -> Result<Picture, String> {
     let c = &stage.conditions;
     let (lo, hi) = (c.ambient_min.base(), c.ambient_max.base());
@@ -80,10 +92,14 @@ pub fn picture(stage: &Stage, a: &Analysis) -> Result<Picture, String> {
             )
         })
         .collect();
-    stage
+    let mut picture = stage
         .switch
         .picture(c, &a.corner, &a.drive, &currents)
-        .map_err(|e| format!("stage `{}`: {e}", stage.name))
+        .map_err(|e| format!("stage `{}`: {e}", stage.name))?;
+    if let Some(first) = picture.panels.first_mut() {
+        first.caption = format!("{}: {}", stage.name, first.caption);
+    }
+    Ok(picture)
 }
 
 /// The report value of an analysed stage and its remedy.

@@ -45,7 +45,7 @@ fn parts_check_accepts_shipped_files_and_names_bad_ones() {
         "parts/tip120.json",
     ]);
     assert_eq!(code, 0);
-    assert!(out.contains("parts/tip120.json: ok (TIP120)"), "{out}");
+    assert!(out.contains("parts/tip120.json: ok (TIP120, npn)"), "{out}");
     let (code, _, err) = run(&[
         "parts",
         "check",

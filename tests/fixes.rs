@@ -1,5 +1,7 @@
-//! A proposed fix, applied to the board file, makes its check pass on the next audit, for each
-//! kind of fix that a board file can take.
+//! A stage's composed remedy, applied by hand to the board file (the `apply` object of its JSON
+//! report), gives on the next audit the verdict the remedy's re-check promised, each fix's check
+//! the status it promised, and no check worse than before; for each kind of fix a board file can
+//! take.
 
 mod common;
 
@@ -21,26 +23,38 @@ fn audit_json(file: &str) -> Value {
     serde_json::from_str(&out).expect("JSON report")
 }
 
-/// Set `path` (dotted: `load.resistor_ohms`) in a stage object.
-fn patch(stage: &mut Value, path: &str, value: &Value) {
-    let mut target = stage;
-    let parts: Vec<&str> = path.split('.').collect();
-    for key in &parts[..parts.len() - 1] {
-        target = target
-            .get_mut(*key)
-            .expect("the object the fix names exists in the stage");
+/// Set `path` (dotted: `load.resistor_ohms`) in a stage object; an object the stage takes from
+/// the defaults is copied into the stage first.
+fn patch(stage: &mut Value, defaults: &Value, path: &str, value: &Value) {
+    match path.split_once('.') {
+        Some((object, key)) => {
+            if stage.get(object).is_none() {
+                stage[object] = defaults[object].clone();
+            }
+            stage[object][key] = value.clone();
+        }
+        None => stage[path] = value.clone(),
     }
-    target[parts[parts.len() - 1]] = value.clone();
+}
+
+fn rank(status: &Value) -> u8 {
+    match status.as_str() {
+        Some("pass") => 0,
+        Some("marginal") => 1,
+        _ => 2,
+    }
 }
 
 #[test]
-fn applied_fixes_pass_on_the_next_audit() {
+fn applied_remedies_give_what_they_promised() {
     let dir = std::env::temp_dir().join(format!("pinlow-fixes-{}", std::process::id()));
     std::fs::create_dir_all(&dir).expect("temp dir");
     let mut covered = BTreeSet::new();
+    let mut applied = 0;
     for board in [
         "examples/greenhouse.json",
         "tests/fixtures/boards/every-load.json",
+        "tests/fixtures/boards/hand-worked.json",
     ] {
         let report = audit_json(board);
         let text = std::fs::read_to_string(board).expect("board");
@@ -51,36 +65,60 @@ fn applied_fixes_pass_on_the_next_audit() {
             .iter()
             .enumerate()
         {
-            for fix in stage["fixes"].as_array().expect("fixes array") {
-                let apply = fix["apply"].as_object().expect("apply object");
-                if apply.is_empty() || fix["recheck"] != "pass" {
-                    continue;
-                }
-                let mut patched = original.clone();
-                for (path, value) in apply {
-                    patch(&mut patched["stages"][i], path, value);
-                }
-                let file = dir.join(format!("fixed-{}-{i}.json", covered.len()));
-                std::fs::write(&file, patched.to_string()).expect("write");
-                let again = audit_json(&file.to_string_lossy());
-                let check = fix["check"].as_str().expect("check id");
-                let status = again["stages"][i]["checks"]
+            let remedy = &stage["remedy"];
+            let Some(apply) = remedy["apply"].as_object().filter(|a| !a.is_empty()) else {
+                continue;
+            };
+            let mut patched = original.clone();
+            for (path, value) in apply {
+                let defaults = original["defaults"].clone();
+                patch(&mut patched["stages"][i], &defaults, path, value);
+            }
+            let file = dir.join(format!("fixed-{applied}.json"));
+            std::fs::write(&file, patched.to_string()).expect("write");
+            let again = &audit_json(&file.to_string_lossy())["stages"][i];
+            applied += 1;
+            assert_eq!(
+                again["verdict"], remedy["verdict_after"],
+                "{board} stage {i}: the re-check promised {}, the audit gives {}",
+                remedy["verdict_after"], again["verdict"]
+            );
+            assert!(
+                rank(&again["verdict"]) <= rank(&stage["verdict"]),
+                "{board} stage {i} got worse"
+            );
+            let status_of = |report: &Value, id: &str| {
+                report["checks"]
                     .as_array()
                     .expect("checks")
                     .iter()
-                    .find(|c| c["id"] == check)
-                    .map(|c| c["status"].clone());
+                    .find(|c| c["id"] == id)
+                    .map(|c| c["status"].clone())
+            };
+            for fix in stage["fixes"].as_array().expect("fixes") {
+                let check = fix["check"].as_str().expect("check id");
+                if fix["apply"].as_object().is_some_and(|a| !a.is_empty()) {
+                    assert_eq!(
+                        status_of(again, check),
+                        Some(fix["recheck"].clone()),
+                        "{board} stage {i}: {fix}"
+                    );
+                    if fix["recheck"] == "pass" {
+                        covered.insert(check.to_string());
+                    }
+                }
+            }
+            for w in remedy["worsened"].as_array().expect("worsened") {
                 assert_eq!(
-                    status,
-                    Some(Value::from("pass")),
-                    "{board} stage {i}: fix {fix} did not make {check} pass"
+                    status_of(again, w["check"].as_str().expect("id")),
+                    Some(w["to"].clone())
                 );
-                covered.insert(check.to_string());
             }
         }
     }
     std::fs::remove_dir_all(&dir).ok();
-    for kind in ["pinned-low", "stays-off", "led-current", "resistor-power"] {
+    assert!(applied >= 4, "only {applied} remedies applied");
+    for kind in ["pinned-low", "stays-off", "resistor-power"] {
         assert!(
             covered.contains(kind),
             "no applied fix for {kind}: covered {covered:?}"

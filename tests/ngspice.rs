@@ -15,12 +15,28 @@
 
 mod support;
 
-use pinlow::analysis::{analyse, StageAnalysis};
+use pinlow::analysis::{analyse, Analysis};
 use pinlow::board::parse_board;
+use pinlow::conditions::PullDown;
+use pinlow::drive::npn::corner::NpnWorst;
+use pinlow::drive::npn::ebers_moll::vce_sat_ebers_moll;
 use pinlow::parts::Library;
-use pinlow::plot::vce_sat_ebers_moll;
 use pinlow::quantity::Base;
-use pinlow::stage::{PullDown, Stage};
+use pinlow::stage::Stage;
+
+type StageAnalysis = Analysis;
+
+/// The NPN figures of an analysis.
+fn npn(a: &Analysis) -> &NpnWorst {
+    &pinlow::drive::npn::detail(&a.drive)
+        .expect("an npn stage")
+        .worst
+}
+
+/// Worst-case overdrive, 0 when the stage cannot turn on.
+fn od_of(a: &Analysis) -> f64 {
+    npn(a).overdrive.unwrap_or(0.0)
+}
 use support::ngspice;
 
 /// Boltzmann constant, J/K [std: SI 2019, exact].
@@ -132,12 +148,15 @@ fn generated_stages(lib: &Library) -> Vec<(Stage, StageAnalysis)> {
                 (s, a)
             })
             .collect();
-        let od = |a: &StageAnalysis| a.worst.overdrive_min;
-        let pass = all.iter().rev().find(|(s, a)| od(a) >= s.overdrive);
+        let od = od_of;
+        let pass = all
+            .iter()
+            .rev()
+            .find(|(s, a)| od(a) >= s.conditions.overdrive);
         let marginal = all
             .iter()
             .rev()
-            .find(|(s, a)| od(a) >= 1.1 && od(a) < s.overdrive);
+            .find(|(s, a)| od(a) >= 1.1 && od(a) < s.conditions.overdrive);
         let fail = all.iter().find(|(_, a)| od(a) > 0.0 && od(a) <= 0.9);
         for pick in [pass, marginal, fail].into_iter().flatten() {
             out.push(pick.clone());
@@ -148,24 +167,24 @@ fn generated_stages(lib: &Library) -> Vec<(Stage, StageAnalysis)> {
 
 /// The corner netlist of a stage (see the file header).
 fn corner_netlist(stage: &Stage, a: &StageAnalysis) -> String {
-    let wc = &a.worst;
-    let c = &wc.load;
-    let tol = stage.resistor_tolerance;
-    let t = stage.ambient_min.base();
+    let wc = npn(a);
+    let c = &wc.corner;
+    let tol = stage.conditions.resistor_tolerance;
+    let t = stage.conditions.ambient_min.base();
     let ic_max = c.ic_max.base();
     let ib = wc.base_current_min.base();
-    let bf = c.gain_min;
+    let bf = c.gain_wc;
     let vt = vt(t);
     // Collector current of the corner: the saturated load current, or BF x IB when the drive is
     // short of it (active region).
     let ic_corner = ic_max.min(bf * ib);
-    let is = fit_is(ic_corner, ib, c.vbe_sat_max_cold.base(), bf, BR, vt);
-    let rb_plus = wc.resistors.rb.base() * (1.0 + tol);
-    let rbe = match wc.resistors.rbe {
+    let is = fit_is(ic_corner, ib, c.vbe_max_cold.base(), bf, BR, vt);
+    let rb_plus = wc.rb.base() * (1.0 + tol);
+    let rbe = match wc.rbe {
         Some(r) => format!("RBE nb 0 {:e}\n", r.base() * (1.0 - tol)),
         None => String::new(),
     };
-    let vcc_max = c.vcc_max.base();
+    let vcc_max = a.corner.vcc_max.base();
     let r_load = vcc_max / ic_max;
     format!(
         "* pinlow worst-case corner of `{name}`\n\
@@ -187,7 +206,7 @@ fn corner_netlist(stage: &Stage, a: &StageAnalysis) -> String {
          .endc\n\
          .end\n",
         name = stage.name,
-        voh = stage.logic_high_min.base(),
+        voh = stage.conditions.logic_high_min.base(),
     )
 }
 
@@ -220,15 +239,15 @@ fn engine_corner_agrees_with_ngspice() {
         let (vc, vb) = (v["v(c)"], v["v(b)"]);
         rows.push(Row {
             name: s.name.clone(),
-            overdrive: a.worst.overdrive_min,
-            ib_engine: a.worst.base_current_min.base(),
+            overdrive: od_of(a),
+            ib_engine: npn(a).base_current_min.base(),
             ib_spice: v["i(vib)"],
             ic_spice: v["i(vic)"],
-            ic_max: a.worst.load.ic_max.base(),
+            ic_max: npn(a).corner.ic_max.base(),
             vce: vc,
             vbc: vb - vc,
-            vce_sat_part: a.worst.load.vce_sat_max.base(),
-            vt: vt(s.ambient_min.base()),
+            vce_sat_part: npn(a).corner.vce_sat_max.base(),
+            vt: vt(s.conditions.ambient_min.base()),
         });
     }
 
@@ -257,16 +276,13 @@ fn engine_corner_agrees_with_ngspice() {
     // The generated set must span the pinned-low verdicts (stage-model 5).
     let pass = stages
         .iter()
-        .filter(|(s, a)| a.worst.overdrive_min >= s.overdrive)
+        .filter(|(s, a)| od_of(a) >= s.conditions.overdrive)
         .count();
     let marginal = stages
         .iter()
-        .filter(|(s, a)| (1.0..s.overdrive).contains(&a.worst.overdrive_min))
+        .filter(|(s, a)| (1.0..s.conditions.overdrive).contains(&od_of(a)))
         .count();
-    let fail = stages
-        .iter()
-        .filter(|(_, a)| a.worst.overdrive_min < 1.0)
-        .count();
+    let fail = stages.iter().filter(|(_, a)| od_of(a) < 1.0).count();
     assert!(stages.len() >= 20, "only {} stages generated", stages.len());
     assert!(
         pass >= 5 && marginal >= 5 && fail >= 5,
@@ -274,10 +290,10 @@ fn engine_corner_agrees_with_ngspice() {
     );
     assert!(stages
         .iter()
-        .any(|(s, _)| matches!(s.pull_down, PullDown::Given(_))));
+        .any(|(s, _)| matches!(s.conditions.inputs.pull_down, PullDown::Given(_))));
     assert!(stages
         .iter()
-        .any(|(s, _)| matches!(s.pull_down, PullDown::None)));
+        .any(|(s, _)| matches!(s.conditions.inputs.pull_down, PullDown::None)));
 
     for r in &rows {
         // Base current within 3 % of the engine's IB,min.

@@ -527,7 +527,7 @@ fn standard_input_is_a_board_named_stdin() {
     assert_eq!(out.status.code(), Some(2));
     let err = String::from_utf8_lossy(&out.stderr);
     assert!(
-        err.contains("<stdin>: line 2, column 27, at stages[0].supply_vv: unknown field"),
+        err.contains("<stdin>: line 2, column 30, at stages[0].supply_vv: unknown field"),
         "{err}"
     );
 }
@@ -543,7 +543,7 @@ fn byte_order_marks_are_accepted() {
     assert!(out.contains("Board: one"), "{out}");
     let (code, out, err) = run_in(&dir, &["parts", "check", "parts/p.json"]);
     assert_eq!(code, 0, "{err}");
-    assert_eq!(out, "parts/p.json: ok (lab-2n3904)\n");
+    assert_eq!(out, "parts/p.json: ok (lab-2n3904, npn)\n");
     let (code, _, err) = run_in(&dir, &["parts", "show", "lab-2n3904", "--parts", "parts"]);
     assert_eq!(code, 0, "{err}");
 }

@@ -237,17 +237,16 @@ pub fn clamp_object(clamp: &Clamp, proposal: &ClampProposal) -> (serde_json::Val
     (value, reverse, current)
 }
 
-/// Remedies of the drive-neutral checks that are not a pass.
-pub fn remedies(
-    c: &Conditions,
-    corner: &Corner,
-    ratings: &Ratings,
-    clamp: &Clamp,
-    proposal: Option<&ClampProposal>,
-    d: &DriveAnalysis,
-    resistors: &[ResistorUse],
-    findings: &[Finding],
-) -> Vec<Proposal> {
+/// Remedies of the drive-neutral checks of an analysed stage that are not a pass.
+pub fn remedies(stage: &crate::stage::Stage, a: &super::Analysis) -> Vec<Proposal> {
+    let c = &stage.conditions;
+    let corner = &a.corner;
+    let ratings = &stage.switch.ratings();
+    let clamp = &stage.clamp;
+    let proposal = a.clamp.as_ref();
+    let d = &a.drive;
+    let resistors = &a.resistors;
+    let findings = &a.findings;
     let mut out = Vec::new();
     for f in findings.iter().filter(|f| f.status != Status::Pass) {
         if f.id == ratings.current_check {

@@ -82,16 +82,7 @@ pub fn proposals(stage: &Stage, a: &Analysis) -> Vec<Proposal> {
     for f in a.findings.iter().filter(|f| f.status != Status::Pass) {
         out.extend(stage.load.remedy(f, &ctx));
     }
-    out.extend(common::remedies(
-        c,
-        &a.corner,
-        &stage.switch.ratings(),
-        &stage.clamp,
-        a.clamp.as_ref(),
-        &a.drive,
-        &a.resistors,
-        &a.findings,
-    ));
+    out.extend(common::remedies(stage, a));
     out.sort_by_key(|p| p.check.rank);
     out
 }

@@ -101,14 +101,15 @@ impl PartCheck<'_> {
                     return Err(Error::invalid(
                         self.at(&format!("{name}[{i}].{key}")),
                         format!(
-                            "points must be sorted by increasing {}: {} follows {}",
+                            "points must be sorted by increasing {}: {} {unit} follows {} {unit}",
                             if key.ends_with("_v") {
                                 "voltage"
                             } else {
                                 "current"
                             },
                             show_number(v),
-                            show_number(p)
+                            show_number(p),
+                            unit = if key.ends_with("_v") { "V" } else { "A" }
                         ),
                     ));
                 }
