@@ -20,6 +20,7 @@ use crate::pipeline::{self, Options};
 use crate::report::{output_width, renderer_with_width, write_report, Format, StageReport};
 use crate::stage::Stage;
 
+mod fix;
 mod flags;
 mod parts_view;
 mod progress;
@@ -58,6 +59,17 @@ pub fn run(
         no_color,
     };
     match &cli.command {
+        Command::Fix {
+            board,
+            library,
+            output,
+            force,
+            strict,
+        } => {
+            let (lib, inputs) = library_of(&env, library)?;
+            let verdict = fix::run(board, output, *force, &lib, inputs, out)?;
+            Ok(exit_code(verdict, *strict))
+        }
         Command::Parts(PartsCommand::Check { files, output }) => parts_check(files, output, out),
         Command::Parts(PartsCommand::List {
             format,

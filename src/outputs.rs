@@ -39,6 +39,9 @@ pub enum Kind {
     Svg,
     /// Plain text (tables): a first line `# written by pinlow VERSION`.
     Text,
+    /// A board file (`pinlow fix`): it carries no marker (a board takes no key of pinlow's own),
+    /// so an existing file is replaced only with `--force`.
+    Board,
 }
 
 impl Kind {
@@ -48,6 +51,7 @@ impl Kind {
             Kind::Json => format!("{{\n  \"generator\": \"pinlow {VERSION}\","),
             Kind::Markdown | Kind::Svg => format!("<!-- written by pinlow {VERSION} -->\n"),
             Kind::Text => format!("# written by pinlow {VERSION}\n"),
+            Kind::Board => String::new(),
         }
     }
 }
@@ -599,7 +603,7 @@ impl OutputFile {
                 w.write_all(marker.as_bytes())?;
                 w.write_all(rest)
             }
-            Kind::Markdown | Kind::Svg | Kind::Text => {
+            Kind::Markdown | Kind::Svg | Kind::Text | Kind::Board => {
                 w.write_all(marker.as_bytes())?;
                 w.write_all(buf)
             }

@@ -138,6 +138,18 @@ pub fn compose(stage: &Stage, a: &Analysis) -> Option<Remedy> {
     })
 }
 
+/// Apply the changes of a remedy to a stage object as written (key order kept; an object the
+/// stage takes from `defaults` is copied into the stage first): what `pinlow fix` writes.
+pub fn apply_changes(
+    stage: &mut Map<String, Value>,
+    defaults: &Map<String, Value>,
+    changes: &[Change],
+) {
+    for c in changes {
+        put(stage, defaults, &c.field, Some(c.to.clone()));
+    }
+}
+
 /// The stage's own fields as a JSON object.
 fn to_map(raw: &RawStage) -> Map<String, Value> {
     match serde_json::to_value(raw) {

@@ -12,7 +12,7 @@ pub mod compose;
 pub mod resistors;
 pub mod yield_mc;
 
-pub use compose::{compose, Change, Remedy};
+pub use compose::{apply_changes, compose, Change, Remedy};
 pub use resistors::{RatingSource, ResistorUse};
 
 use crate::check::{why, worst, Explain, Figure, Finding, Status, Why};

@@ -101,6 +101,15 @@ impl BoardReader {
         &'a mut self,
         lib: &'a Library,
     ) -> Result<impl Iterator<Item = Result<Stage>> + 'a> {
+        Ok(self.stages_with_raw(lib)?.map(|r| r.map(|(s, _)| s)))
+    }
+
+    /// As [`BoardReader::stages`], each stage with its element as written (for `pinlow fix`,
+    /// which rewrites stages keeping their keys in order).
+    pub fn stages_with_raw<'a>(
+        &'a mut self,
+        lib: &'a Library,
+    ) -> Result<impl Iterator<Item = Result<(Stage, RawElement)>> + 'a> {
         let BoardReader {
             stream, defaults, ..
         } = self;
@@ -116,8 +125,15 @@ impl BoardReader {
             };
             let value: Value = element.raw.parse(&label, &path)?;
             let raw = raw_stage(&label, &path, &value, "a stage").map_err(located)?;
-            resolve_stage(&raw, defaults, &origin, element.index, lib).map_err(located)
+            let stage =
+                resolve_stage(&raw, defaults, &origin, element.index, lib).map_err(located)?;
+            Ok((stage, element))
         }))
+    }
+
+    /// The board's name and defaults as written, when the file gives them.
+    pub fn head_raw(&self) -> (Option<&RawText>, Option<&RawText>) {
+        (self.stream.board(), self.stream.defaults())
     }
 }
 

@@ -171,6 +171,37 @@ pub enum Command {
         #[command(flatten)]
         output: PlotOutputArgs,
     },
+    /// Write the board with every stage's remedy applied (values the engine sized written as
+    /// fitted values); stages that need another part are left as they were and say which figures.
+    #[command(after_help = "Examples:
+  pinlow fix examples/greenhouse.json -o greenhouse-fixed.json
+  pinlow fix board.json -o board.json.fixed --parts my-parts
+
+The output is never one of the inputs; an existing file is replaced only with --force.
+Exit codes as for audit, from the fixed board.")]
+    Fix {
+        /// The board file, `-` for standard input.
+        #[arg(value_name = "FILE")]
+        board: PathBuf,
+        /// Parts beside the shipped ones.
+        #[command(flatten)]
+        library: LibraryArgs,
+        /// The fixed board file.
+        #[arg(
+            long,
+            short = 'o',
+            value_name = "FIXED.json",
+            required = true,
+            help_heading = "Output"
+        )]
+        output: PathBuf,
+        /// Replace an existing file (never an input).
+        #[arg(long, help_heading = "Output")]
+        force: bool,
+        /// Exit 1 on a marginal stage too.
+        #[arg(long)]
+        strict: bool,
+    },
     /// List, show or check part files.
     #[command(
         subcommand,

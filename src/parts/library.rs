@@ -47,6 +47,18 @@ const BUILTIN: &[(&str, &str)] = &[
     ("bc817-40.json", include_str!("../../parts/bc817-40.json")),
     ("bd139.json", include_str!("../../parts/bd139.json")),
     ("tip120.json", include_str!("../../parts/tip120.json")),
+    ("2n7000.json", include_str!("../../parts/2n7000.json")),
+    ("2n7002.json", include_str!("../../parts/2n7002.json")),
+    ("bss138.json", include_str!("../../parts/bss138.json")),
+    ("bss123.json", include_str!("../../parts/bss123.json")),
+    (
+        "demo-nmos-20v.json",
+        include_str!("../../parts/demo-nmos-20v.json"),
+    ),
+    (
+        "demo-nmos-40v.json",
+        include_str!("../../parts/demo-nmos-40v.json"),
+    ),
 ];
 
 /// The names of the shipped part files (for a test that none is forgotten).

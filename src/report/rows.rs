@@ -410,7 +410,7 @@ fn stage_into(out: &mut Vec<Block>, s: &StageReport) {
 }
 
 /// A board field as a user names it.
-fn field_label(field: &str) -> &str {
+pub fn field_label(field: &str) -> &str {
     match field {
         "base_resistor_ohms" => "RB",
         "gate_resistor_ohms" => "RG",
@@ -422,7 +422,7 @@ fn field_label(field: &str) -> &str {
 }
 
 /// A board field's value as a user reads it.
-fn show_value(field: &str, v: &serde_json::Value) -> String {
+pub fn show_value(field: &str, v: &serde_json::Value) -> String {
     use serde_json::Value;
     match v {
         Value::Null => "none".to_string(),
