@@ -177,8 +177,21 @@ pub fn run(
             }
             for (s, target) in stages.iter(&lib)?.zip(&targets) {
                 let s = s?;
-                write_stage_svg(&s, target)?;
-                writeln!(out, "{}: {}", s.name, target.shown().display()).map_err(stdout_error)?;
+                let name = crate::report::escape::terminal_text(&s.name).into_owned();
+                let a = crate::analysis::analyse(&s);
+                match pipeline::picture(&s, &a) {
+                    Ok(picture) => {
+                        write_svg(&picture, target)?;
+                        writeln!(out, "{name}: {}", target.shown().display())
+                    }
+                    // A stage with nothing to draw gets no file and says why.
+                    Err(why) => writeln!(
+                        out,
+                        "{name}: no picture ({})",
+                        crate::report::escape::terminal_text(&why)
+                    ),
+                }
+                .map_err(stdout_error)?;
             }
             Ok(0)
         }
@@ -511,14 +524,6 @@ fn write_svg(picture: &crate::picture::Picture, target: &Target) -> Result<()> {
         )
     })?;
     target.write(svg.as_bytes())
-}
-
-/// Analyse one stage and write its SVG.
-fn write_stage_svg(s: &Stage, target: &Target) -> Result<()> {
-    let a = crate::analysis::analyse(s);
-    let picture =
-        pipeline::picture(s, &a).map_err(|e| Error::invalid(format!("stage `{}`", s.name), e))?;
-    write_svg(&picture, target)
 }
 
 /// `out.svg` -> `out-N.svg`, beside it; always `.svg`, whatever `out` ends with, so that the

@@ -162,6 +162,14 @@ pub fn build(index: usize, stage: &Stage, a: &Analysis, remedy: Option<&Remedy>)
             clamp_v: stage.clamp.voltage().map(|v| num(v.base())),
             reverse_min_v: num(p.reverse_min.base()),
             current_min_a: num(p.current_min.base()),
+            standard_reverse_v: crate::analysis::common::step_up(
+                &crate::analysis::common::DIODE_REVERSE_STEPS_V,
+                p.reverse_min.base(),
+            ),
+            standard_current_a: crate::analysis::common::step_up(
+                &crate::analysis::common::DIODE_CURRENT_STEPS_A,
+                p.current_min.base(),
+            ),
             stored_energy_j: p.stored_energy.map(|e| num(e.base())),
             decay_time_constant_s: p.decay_time_constant.map(|t| num(t.base())),
         }),

@@ -6,7 +6,7 @@ use clap::builder::{PossibleValuesParser, ValueParser};
 use clap::{Arg, ArgAction, ArgMatches, Args, Command, FromArgMatches};
 
 use crate::load::{Field, KINDS};
-use crate::quantity::parse_value;
+use crate::quantity::parse_value_in_span;
 
 /// Every load field once per flag, in registry order, with the kinds that take it.
 pub fn unique_fields() -> Vec<(&'static Field, Vec<&'static str>)> {
@@ -64,7 +64,7 @@ impl Args for LoadFlags {
     fn augment_args(mut cmd: Command) -> Command {
         for (f, kinds) in unique_fields() {
             let kind = f.value;
-            let parser = ValueParser::new(move |s: &str| parse_value(s, kind));
+            let parser = ValueParser::new(move |s: &str| parse_value_in_span(s, kind));
             cmd = cmd.arg(
                 Arg::new(id(f.flag))
                     .long(id(f.flag))

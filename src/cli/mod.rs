@@ -340,7 +340,7 @@ impl From<GradeArg> for Grade {
 macro_rules! value_parser_fn {
     ($name:ident, $kind:expr) => {
         fn $name(s: &str) -> Result<f64, ParseValueError> {
-            parse_value(s, $kind)
+            crate::quantity::parse_value_in_span(s, $kind)
         }
     };
 }

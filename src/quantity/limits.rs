@@ -90,6 +90,21 @@ pub fn show_number(v: f64) -> String {
     }
 }
 
+/// The span of the figures a kind of value gives (`None` for kinds without one).
+pub fn span_of(kind: super::ValueKind) -> Option<Span> {
+    use super::ValueKind as K;
+    match kind {
+        K::Voltage => Some(VOLTS),
+        K::Current => Some(AMPS),
+        K::Resistance => Some(OHMS),
+        K::Power => Some(WATTS),
+        K::Inductance => Some(HENRIES),
+        K::Length => Some(METRES),
+        K::Time => Some(SECONDS),
+        K::Temperature | K::Fraction | K::Plain => None,
+    }
+}
+
 impl Span {
     /// Why `v` is not accepted (without the number itself), or `None` when it is: it must be
     /// finite, positive and inside the span.

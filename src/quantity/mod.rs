@@ -339,6 +339,30 @@ fn decimal_value(int: &str, frac: &str, exp: i64) -> Option<f64> {
     format!("{int}.{frac}0e{exp}").parse::<f64>().ok()
 }
 
+/// [`parse_value`], then the range pinlow accepts for the kind ([`limits::span_of`]): a value
+/// outside it is refused saying what it was read as, so that a prefix of the wrong case
+/// (`50MA`, mega for milli) is seen at once.
+pub fn parse_value_in_span(text: &str, kind: ValueKind) -> Result<f64, ParseValueError> {
+    let v = parse_value(text, kind)?;
+    let Some(span) = limits::span_of(kind) else {
+        return Ok(v);
+    };
+    match span.reason(v) {
+        None => Ok(v),
+        Some(reason) if v.is_finite() && v > 0.0 => Err(ParseValueError {
+            input: text.to_string(),
+            kind,
+            reason: format!(
+                "it reads as {} = {} {}, and {reason} (m is milli, M is mega)",
+                format_engineering(v, span.unit),
+                limits::show_number(v),
+                span.unit
+            ),
+        }),
+        Some(_) => Ok(v),
+    }
+}
+
 /// Parse text into a number in base SI units (V, A, ohm, W, degrees C, H, s, m; fractions as 0..1).
 ///
 /// The number may carry a unit of its kind with an SI prefix (`20mA`, `20 mA`), or be an

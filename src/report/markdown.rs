@@ -76,8 +76,11 @@ fn draw(blocks: Vec<Block>, mut out: String) -> String {
                         let cells: Vec<String> = row
                             .iter()
                             .map(|c| match c.status {
-                                Some(_) => format!("**{}**", escape(&c.text)),
-                                None => escape(&c.text),
+                                // Bold draws the eye to what is not a pass only.
+                                Some(st) if st != crate::check::Status::Pass => {
+                                    format!("**{}**", escape(&c.text))
+                                }
+                                _ => escape(&c.text),
                             })
                             .collect();
                         out.push_str(&format!("| {} |\n", cells.join(" | ")));

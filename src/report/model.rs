@@ -74,6 +74,10 @@ pub struct ClampReport {
     pub reverse_min_v: f64,
     /// Least current rating a clamp needs.
     pub current_min_a: f64,
+    /// The standard reverse rating that covers the least (the rectifier steps).
+    pub standard_reverse_v: f64,
+    /// The standard current rating that covers the least.
+    pub standard_current_a: f64,
     /// Energy in the winding at IC,max.
     pub stored_energy_j: Option<f64>,
     /// L/R with the lowest winding resistance.

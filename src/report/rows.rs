@@ -250,10 +250,10 @@ fn stage_into(out: &mut Vec<Block>, s: &StageReport) {
             "Resistor".into(),
             "Value".into(),
             "Code".into(),
-            "Source".into(),
+            "Fitted or sized".into(),
             "Worst power [mW]".into(),
-            "Rating [W]".into(),
-            "Recommended [W]".into(),
+            "Rating held to [W]".into(),
+            "Rating needed [W]".into(),
         ],
         rows: s
             .resistors
@@ -263,15 +263,15 @@ fn stage_into(out: &mut Vec<Block>, s: &StageReport) {
                     Cell::from(format!("{} {}", r.symbol, r.role)),
                     Cell::from(fe(r.ohms, "Ω")),
                     Cell::from(r.code.clone()),
-                    Cell::from(if r.sized { "sized" } else { "given" }),
+                    Cell::from(if r.sized { "sized" } else { "fitted" }),
                     Cell::from(scaled(Some(r.worst_power_w), 1e3)),
                     Cell::from(format!(
                         "{} ({})",
                         plain(Some(r.rating_w), 3),
                         match r.rating_source {
-                            crate::analysis::RatingSource::Given => "given",
-                            crate::analysis::RatingSource::Assumed => "assumed",
-                            crate::analysis::RatingSource::Proposed => "proposed",
+                            crate::analysis::RatingSource::Given => "the board's fitted rating",
+                            crate::analysis::RatingSource::Assumed => "fitted rating, assumed",
+                            crate::analysis::RatingSource::Proposed => "sized with it",
                         }
                     )),
                     Cell::from(plain(r.recommended_rating_w, 3)),
@@ -281,13 +281,15 @@ fn stage_into(out: &mut Vec<Block>, s: &StageReport) {
     });
     if let Some(cl) = &s.clamp {
         let mut line = format!(
-            "Clamp fitted: {}{}. A clamp diode needs reverse rating >= {} and current rating >= {}",
+            "Clamp fitted: {}{}. A clamp diode needs at least {} reverse and {} current (the minimum: 1.5 x the highest supply, and the winding's current); a standard part that covers it: {}, {}",
             cl.fitted,
             cl.clamp_v
                 .map(|v| format!(" (holds the switch {} above the supply)", fe(v, "V")))
                 .unwrap_or_default(),
             fe(cl.reverse_min_v, "V"),
             fe(cl.current_min_a, "A"),
+            fe(cl.standard_reverse_v, "V"),
+            fe(cl.standard_current_a, "A"),
         );
         if let (Some(e), Some(t)) = (cl.stored_energy_j, cl.decay_time_constant_s) {
             line.push_str(&format!(
@@ -459,6 +461,20 @@ pub fn show_value(field: &str, v: &serde_json::Value) -> String {
 
 fn yield_blocks(out: &mut Vec<Block>, y: &crate::analysis::yield_mc::YieldResult) {
     let share = |f: f64, ci: [f64; 2]| {
+        if f >= 1.0 {
+            // Every build: the interval's upper end is 100 % too; only its lower bound says
+            // anything, and it needs its digits.
+            return format!(
+                "100 % (95 % interval: at least {} %)",
+                plain(Some(ci[0] * 100.0), 7)
+            );
+        }
+        if f <= 0.0 {
+            return format!(
+                "0 % (95 % interval: at most {} %)",
+                plain(Some(ci[1] * 100.0), 4)
+            );
+        }
         format!(
             "{} % (95 % interval {} .. {} %)",
             plain(Some(f * 100.0), 4),
@@ -497,7 +513,7 @@ fn yield_blocks(out: &mut Vec<Block>, y: &crate::analysis::yield_mc::YieldResult
     out.push(Block::Table {
         headers: vec![
             "Figure".into(),
-            "Worse end".into(),
+            "Side that hurts".into(),
             "0.1 % worst".into(),
             "1 % worst".into(),
             "Median".into(),

@@ -12,9 +12,9 @@ use crate::quantity::{format_engineering as fe, format_rkm, Base};
 pub struct PinBound {
     /// RB,pin, ohms.
     pub rb_pin: f64,
-    /// The minimum gain at the load current (25 C) a part with this one's VBE(sat) would need
-    /// for the overdrive at RB,pin, when base current flows there.
-    pub gain_needed: Option<f64>,
+    /// The minimum gain at the load current (25 C) a replacement would need for the overdrive
+    /// at RB,pin.
+    pub gain_needed: super::corner::GainNeed,
 }
 
 /// pinned-low: overdrive >= k passes, 1 <= overdrive < k is marginal, below 1 or no base current
@@ -24,7 +24,7 @@ pub fn pinned_low(
     c: &Conditions,
     w: &NpnWorst,
     sizing: Option<&BaseSizing>,
-    gain_needed: Option<f64>,
+    gain_needed: super::corner::GainNeed,
 ) -> Finding {
     let k = c.overdrive;
     let pin_bound = sizing.filter(|s| !s.reached).map(|s| PinBound {
@@ -107,6 +107,23 @@ pub fn stays_off(part: &NpnPart, c: &Conditions, w: &NpnWorst) -> Finding {
 
 // Words.
 
+/// "a part with minimum gain 247 at 41.5 mA (25 °C) if its VBE(sat) is no higher than this
+/// one's; 290 for any part of its class (VBE(sat) up to 1.2 V)".
+pub fn gain_words(g: &super::corner::GainNeed, ic: f64) -> String {
+    match (g.own, g.class) {
+        (Some(own), Some((v, class))) => format!(
+            "a part with minimum gain {own:.0} at {} (25 °C) if its VBE(sat) is no higher than this one's, {class:.0} for any part of its class (VBE(sat) up to {})",
+            fe(ic, "A"),
+            fe(v, "V")
+        ),
+        (Some(own), None) => format!(
+            "a part with minimum gain {own:.0} at {} (25 °C) if its VBE(sat) is no higher than this one's",
+            fe(ic, "A")
+        ),
+        _ => "a part with more gain".to_string(),
+    }
+}
+
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 enum Pinned {
     Nothing,
@@ -135,10 +152,7 @@ impl PinnedLow {
         let Some(b) = self.pin_bound else {
             return String::new();
         };
-        let gain = match b.gain_needed {
-            Some(g) => format!("a part with minimum gain {g:.0} at {} (25 °C, for a part with this one's VBE(sat))", fe(self.ic, "A")),
-            None => "a part with more gain".to_string(),
-        };
+        let gain = gain_words(&b.gain_needed, self.ic);
         let pair = if self.darlington {
             ""
         } else {

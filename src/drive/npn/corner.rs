@@ -129,6 +129,62 @@ impl NpnCorner {
     }
 }
 
+/// The VBE(sat),max at 25 C a single transistor of the small-signal and medium-power class may
+/// have, for advice that fits any candidate part, V [practice: their datasheets give at most
+/// about 1.2 V; from memory].
+pub const CLASS_VBE_SAT_MAX_V: f64 = 1.2;
+/// The same for a Darlington pair, V [practice, memory].
+pub const DARLINGTON_CLASS_VBE_SAT_MAX_V: f64 = 2.5;
+
+/// The minimum gain at IC,max (25 C) a part needs for the overdrive at `rb` (with the stage's
+/// pull-down rule), its VBE(sat),max at the cold corner being `vbe_cold` and its gain
+/// temperature exponent `xtb`; `None` when no base current flows.
+pub fn gain_needed(
+    c: &Conditions,
+    corner: &NpnCorner,
+    vbe_cold: Voltage,
+    xtb: f64,
+    rb: Resistance,
+) -> Option<f64> {
+    let k = NpnCorner {
+        vbe_max_cold: vbe_cold,
+        ..*corner
+    };
+    let ib = k.base_current_min(c, rb, pull_down_for(c, rb)).base();
+    let ic = corner.ic_max.base();
+    (ib > 0.0 && ic > 0.0).then(|| c.overdrive * ic / ib / gain_factor(c.ambient_min, xtb))
+}
+
+/// The gain a replacement part needs, for a part like this one and for any part of its class.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct GainNeed {
+    /// For a part with this one's VBE(sat).
+    pub own: Option<f64>,
+    /// For any part of the class: (its VBE(sat),max at 25 C, the gain), when that VBE(sat) is
+    /// higher than this part's.
+    pub class: Option<(f64, f64)>,
+}
+
+impl NpnPart {
+    /// The gain a replacement needs for the overdrive at `rb`.
+    pub fn gain_need(&self, c: &Conditions, corner: &NpnCorner, rb: Resistance) -> GainNeed {
+        let own = gain_needed(c, corner, corner.vbe_max_cold, self.gain_temp_exponent, rb);
+        let class_v = if self.is_darlington() {
+            DARLINGTON_CLASS_VBE_SAT_MAX_V
+        } else {
+            CLASS_VBE_SAT_MAX_V
+        };
+        let own_v25 = self.vbe_sat_at(corner.ic_max).1.base();
+        let class = (class_v > own_v25)
+            .then(|| {
+                let cold = self.vbe_at(volts(class_v), c.ambient_min);
+                gain_needed(c, corner, cold, self.gain_temp_exponent, rb).map(|g| (class_v, g))
+            })
+            .flatten();
+        GainNeed { own, class }
+    }
+}
+
 /// The pull-down that goes with a base resistor under the stage's rule.
 pub fn pull_down_for(c: &Conditions, rb: Resistance) -> Option<Resistance> {
     match c.inputs.pull_down {

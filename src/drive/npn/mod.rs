@@ -22,7 +22,7 @@ use crate::picture::Picture;
 use crate::quantity::{format_engineering as fe, Base, Current, Voltage};
 use crate::remedy::Proposal;
 use checks::{pinned_low, stays_off};
-use corner::{gain_factor, pin_limited, pull_down_for, size_base, BaseSizing, NpnCorner, NpnWorst};
+use corner::{pin_limited, pull_down_for, size_base, BaseSizing, NpnCorner, NpnWorst};
 pub use part::{NpnPart, Structure};
 pub use picture::class as picture_class;
 
@@ -66,9 +66,9 @@ pub struct NpnDetail {
     pub sizing: Option<BaseSizing>,
     /// RB,pin for this stage (whether RB was sized or given).
     pub rb_pin: crate::quantity::Resistance,
-    /// The minimum gain at the load current (25 C) a part with this one's VBE(sat) needs for
-    /// the overdrive at RB,pin; `None` when no base current flows there.
-    pub gain_needed: Option<f64>,
+    /// The minimum gain at the load current (25 C) a replacement needs for the overdrive at
+    /// RB,pin.
+    pub gain_needed: corner::GainNeed,
 }
 
 #[derive(Debug)]
@@ -85,24 +85,6 @@ impl OnVoltage for NpnOn<'_> {
     /// VCE(sat),max at IC,max (stage-model 5).
     fn at_corner(&self, current_max: Current) -> Voltage {
         self.part.vce_sat_max_at(current_max)
-    }
-}
-
-impl NpnPart {
-    /// The minimum gain at IC,max and 25 C a part with this one's VBE(sat) would need for the
-    /// overdrive at RB,pin.
-    fn gain_needed(
-        &self,
-        c: &Conditions,
-        corner: &NpnCorner,
-        rb_pin: crate::quantity::Resistance,
-    ) -> Option<f64> {
-        let ib = corner
-            .base_current_min(c, rb_pin, pull_down_for(c, rb_pin))
-            .base();
-        let ic = corner.ic_max.base();
-        (ib > 0.0 && ic > 0.0)
-            .then(|| c.overdrive * ic / ib / gain_factor(c.ambient_min, self.gain_temp_exponent))
     }
 }
 
@@ -269,7 +251,7 @@ impl Switch for NpnPart {
         let rb_pin = sizing
             .map(|s| s.rb_pin)
             .unwrap_or_else(|| pin_limited(c, &corner));
-        let gain_needed = self.gain_needed(c, &corner, rb_pin);
+        let gain_needed = self.gain_need(c, &corner, rb_pin);
         let findings = vec![
             pinned_low(self, c, &w, sizing.as_ref(), gain_needed),
             stays_off(self, c, &w),

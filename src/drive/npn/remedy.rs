@@ -107,18 +107,21 @@ pub fn remedies(
                 }),
             ));
         } else {
-            let gain = part_gain_needed(part, c, &corner, resized.rb_pin, pull_down);
+            let gain = part.gain_need(&sized_conditions, &corner, resized.rb_pin);
             out.push(Proposal::part(
                 PINNED_LOW,
-                gain.map(|g| PartNeed {
-                    figure: "gain_min.hfe",
-                    bound: Bound::AtLeast,
-                    value: g,
-                    unit: "",
-                    at: Some(("ic_a", corner.ic_max.base())),
-                })
-                .into_iter()
-                .collect(),
+                gain.class
+                    .map(|(_, g)| g)
+                    .or(gain.own)
+                    .map(|g| PartNeed {
+                        figure: "gain_min.hfe",
+                        bound: Bound::AtLeast,
+                        value: g,
+                        unit: "",
+                        at: Some(("ic_a", corner.ic_max.base())),
+                    })
+                    .into_iter()
+                    .collect(),
                 why(Words::MoreGain {
                     gain,
                     ic: corner.ic_max.base(),
@@ -130,26 +133,6 @@ pub fn remedies(
         }
     }
     out
-}
-
-/// The minimum gain at IC,max (25 C) a part with this one's VBE(sat) needs for the overdrive at
-/// RB,pin with the pull-down `pull_down`.
-fn part_gain_needed(
-    part: &NpnPart,
-    c: &Conditions,
-    corner: &NpnCorner,
-    rb_pin: Resistance,
-    pull_down: PullDown,
-) -> Option<f64> {
-    let mut c2 = c.clone();
-    c2.inputs.pull_down = pull_down;
-    let ib = corner
-        .base_current_min(&c2, rb_pin, super::corner::pull_down_for(&c2, rb_pin))
-        .base();
-    let ic = corner.ic_max.base();
-    (ib > 0.0 && ic > 0.0).then(|| {
-        c.overdrive * ic / ib / super::corner::gain_factor(c.ambient_min, part.gain_temp_exponent)
-    })
 }
 
 /// The largest series pull-down (at most the usual 10 x RB) that keeps the hot leakage voltage
@@ -186,7 +169,7 @@ enum Words {
         k: f64,
     },
     MoreGain {
-        gain: Option<f64>,
+        gain: super::corner::GainNeed,
         ic: f64,
         k: f64,
         darlington: bool,
@@ -219,13 +202,7 @@ impl Explain for Words {
                 darlington,
                 rb_pin,
             } => {
-                let need = match gain {
-                    Some(g) => format!(
-                        "a part with minimum gain {g:.0} or more at {} (25 °C; the figure holds for a part with this one's VBE(sat))",
-                        fe(*ic, "A")
-                    ),
-                    None => "a part with more gain".to_string(),
-                };
+                let need = super::checks::gain_words(gain, *ic);
                 let pair = if *darlington { "" } else { ", a Darlington pair" };
                 format!(
                     "no base resistor reaches overdrive {k} within the pin's limit (RB no lower than {}): use {need}{pair}, a logic-level MOSFET, or a buffer",
