@@ -183,16 +183,56 @@ pub fn xml_text(text: &str) -> String {
 /// and the bidi controls, which JSON allows raw [std: RFC 8259, 7 Strings] but which would
 /// reach a terminal raw. The JSON still parses back to the very same strings.
 pub fn json_pretty<T: serde::Serialize + ?Sized>(value: &T) -> serde_json::Result<String> {
-    let mut buf = Vec::new();
-    let mut ser = serde_json::Serializer::with_formatter(&mut buf, SafeFormatter::default());
-    value.serialize(&mut ser)?;
-    Ok(String::from_utf8_lossy(&buf).into_owned())
+    json_pretty_at(value, 0)
 }
 
-/// [`serde_json::ser::PrettyFormatter`] plus the escapes of [`json_pretty`].
+/// [`json_pretty`] for a value written inside a larger document: every line after the first
+/// is indented by `base` spaces more.
+pub fn json_pretty_at<T: serde::Serialize + ?Sized>(
+    value: &T,
+    base: usize,
+) -> serde_json::Result<String> {
+    let mut buf = Vec::with_capacity(4096);
+    let mut ser = serde_json::Serializer::with_formatter(&mut buf, SafeFormatter::at(base));
+    value.serialize(&mut ser)?;
+    // serde_json writes UTF-8 only.
+    Ok(String::from_utf8(buf).unwrap_or_else(|e| String::from_utf8_lossy(e.as_bytes()).into_owned()))
+}
+
+/// A two-space pretty layout starting at a base indent, with the escapes of [`json_pretty`].
 #[derive(Default)]
 struct SafeFormatter {
-    pretty: serde_json::ser::PrettyFormatter<'static>,
+    base: usize,
+    level: usize,
+    has_value: bool,
+}
+
+impl SafeFormatter {
+    fn at(base: usize) -> SafeFormatter {
+        SafeFormatter {
+            base,
+            level: 0,
+            has_value: false,
+        }
+    }
+
+    fn newline<W: ?Sized + io::Write>(&self, w: &mut W) -> io::Result<()> {
+        const SPACES: &[u8; 64] = &[b' '; 64];
+        w.write_all(b"\n")?;
+        let mut n = self.base + 2 * self.level;
+        while n > 0 {
+            let k = n.min(SPACES.len());
+            w.write_all(SPACES.get(..k).unwrap_or_default())?;
+            n -= k;
+        }
+        Ok(())
+    }
+}
+
+/// True when `s` may hold a character [`is_unsafe_char`] refuses that serde_json leaves raw:
+/// DEL, or a lead byte of the C1 controls (0xC2) or of the bidi controls (0xE2).
+fn may_hold_unsafe(s: &str) -> bool {
+    s.bytes().any(|b| matches!(b, 0x7f | 0xc2 | 0xe2))
 }
 
 impl serde_json::ser::Formatter for SafeFormatter {
@@ -201,6 +241,9 @@ impl serde_json::ser::Formatter for SafeFormatter {
         writer: &mut W,
         fragment: &str,
     ) -> io::Result<()> {
+        if !may_hold_unsafe(fragment) {
+            return writer.write_all(fragment.as_bytes());
+        }
         let mut start = 0usize;
         for (at, c) in fragment.char_indices() {
             if is_unsafe_char(c) {
@@ -214,42 +257,62 @@ impl serde_json::ser::Formatter for SafeFormatter {
     }
 
     fn begin_array<W: ?Sized + io::Write>(&mut self, w: &mut W) -> io::Result<()> {
-        self.pretty.begin_array(w)
+        self.level += 1;
+        self.has_value = false;
+        w.write_all(b"[")
     }
     fn end_array<W: ?Sized + io::Write>(&mut self, w: &mut W) -> io::Result<()> {
-        self.pretty.end_array(w)
+        self.level -= 1;
+        if self.has_value {
+            self.newline(w)?;
+        }
+        w.write_all(b"]")
     }
     fn begin_array_value<W: ?Sized + io::Write>(
         &mut self,
         w: &mut W,
         first: bool,
     ) -> io::Result<()> {
-        self.pretty.begin_array_value(w, first)
+        if !first {
+            w.write_all(b",")?;
+        }
+        self.newline(w)
     }
-    fn end_array_value<W: ?Sized + io::Write>(&mut self, w: &mut W) -> io::Result<()> {
-        self.pretty.end_array_value(w)
+    fn end_array_value<W: ?Sized + io::Write>(&mut self, _w: &mut W) -> io::Result<()> {
+        self.has_value = true;
+        Ok(())
     }
     fn begin_object<W: ?Sized + io::Write>(&mut self, w: &mut W) -> io::Result<()> {
-        self.pretty.begin_object(w)
+        self.level += 1;
+        self.has_value = false;
+        w.write_all(b"{")
     }
     fn end_object<W: ?Sized + io::Write>(&mut self, w: &mut W) -> io::Result<()> {
-        self.pretty.end_object(w)
+        self.level -= 1;
+        if self.has_value {
+            self.newline(w)?;
+        }
+        w.write_all(b"}")
     }
     fn begin_object_key<W: ?Sized + io::Write>(
         &mut self,
         w: &mut W,
         first: bool,
     ) -> io::Result<()> {
-        self.pretty.begin_object_key(w, first)
+        if !first {
+            w.write_all(b",")?;
+        }
+        self.newline(w)
     }
-    fn end_object_key<W: ?Sized + io::Write>(&mut self, w: &mut W) -> io::Result<()> {
-        self.pretty.end_object_key(w)
+    fn end_object_key<W: ?Sized + io::Write>(&mut self, _w: &mut W) -> io::Result<()> {
+        Ok(())
     }
     fn begin_object_value<W: ?Sized + io::Write>(&mut self, w: &mut W) -> io::Result<()> {
-        self.pretty.begin_object_value(w)
+        w.write_all(b": ")
     }
-    fn end_object_value<W: ?Sized + io::Write>(&mut self, w: &mut W) -> io::Result<()> {
-        self.pretty.end_object_value(w)
+    fn end_object_value<W: ?Sized + io::Write>(&mut self, _w: &mut W) -> io::Result<()> {
+        self.has_value = true;
+        Ok(())
     }
 }
 

@@ -17,9 +17,8 @@ pub struct JsonRenderer {
 fn pretty<T: Serialize>(value: &T, indent: usize) -> String {
     // Plain structs of strings, numbers and options always serialise; say so in the output
     // rather than panic if that ever changes.
-    let text = super::escape::json_pretty(value)
-        .unwrap_or_else(|e| format!("{{\"error\": {:?}}}", e.to_string()));
-    text.replace('\n', &format!("\n{}", " ".repeat(indent)))
+    super::escape::json_pretty_at(value, indent)
+        .unwrap_or_else(|e| format!("{{\"error\": {:?}}}", e.to_string()))
 }
 
 impl Renderer for JsonRenderer {
