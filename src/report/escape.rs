@@ -196,7 +196,8 @@ pub fn json_pretty_at<T: serde::Serialize + ?Sized>(
     let mut ser = serde_json::Serializer::with_formatter(&mut buf, SafeFormatter::at(base));
     value.serialize(&mut ser)?;
     // serde_json writes UTF-8 only.
-    Ok(String::from_utf8(buf).unwrap_or_else(|e| String::from_utf8_lossy(e.as_bytes()).into_owned()))
+    Ok(String::from_utf8(buf)
+        .unwrap_or_else(|e| String::from_utf8_lossy(e.as_bytes()).into_owned()))
 }
 
 /// A two-space pretty layout starting at a base indent, with the escapes of [`json_pretty`].

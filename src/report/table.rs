@@ -47,6 +47,63 @@ impl TableRenderer {
     }
 }
 
+/// A table drawn line by line in the layout of comfy-table's `UTF8_FULL_CONDENSED` preset with
+/// one space of padding and nothing wrapped: the same text, without the layout engine, which
+/// dominates the time of long reports (piped output: no width, no colour).
+fn plain_table(headers: &[String], rows: &[Vec<Cell>]) -> String {
+    let headers: Vec<std::borrow::Cow<'_, str>> =
+        headers.iter().map(|h| terminal_text(h)).collect();
+    let rows: Vec<Vec<std::borrow::Cow<'_, str>>> = rows
+        .iter()
+        .map(|r| r.iter().map(|c| terminal_text(&c.text)).collect())
+        .collect();
+    let columns = headers
+        .len()
+        .max(rows.iter().map(Vec::len).max().unwrap_or(0));
+    let mut widths = vec![0usize; columns];
+    for line in std::iter::once(&headers).chain(rows.iter()) {
+        for (w, cell) in widths.iter_mut().zip(line) {
+            *w = (*w).max(display_width(cell));
+        }
+    }
+    let rule = |left: char, fill: char, joint: char, right: char, out: &mut String| {
+        out.push(left);
+        for (i, w) in widths.iter().enumerate() {
+            if i > 0 {
+                out.push(joint);
+            }
+            out.extend(std::iter::repeat_n(fill, w + 2));
+        }
+        out.push(right);
+        out.push('\n');
+    };
+    let line = |cells: &[std::borrow::Cow<'_, str>], out: &mut String| {
+        out.push('│');
+        for (i, w) in widths.iter().enumerate() {
+            if i > 0 {
+                out.push('┆');
+            }
+            let text = cells.get(i).map(|c| c.as_ref()).unwrap_or("");
+            out.push(' ');
+            out.push_str(text);
+            out.extend(std::iter::repeat_n(' ', w - display_width(text) + 1));
+        }
+        out.push('│');
+        out.push('\n');
+    };
+    let mut out = String::with_capacity(256 * (rows.len() + 4));
+    rule('┌', '─', '┬', '┐', &mut out);
+    line(&headers, &mut out);
+    rule('╞', '═', '╪', '╡', &mut out);
+    for r in &rows {
+        line(r, &mut out);
+    }
+    rule('└', '─', '┴', '┘', &mut out);
+    // comfy-table ends its text without the last newline.
+    out.pop();
+    out
+}
+
 fn color_of(s: Status) -> Color {
     match s {
         Status::Pass => Color::Green,
@@ -74,6 +131,9 @@ impl TableRenderer {
     }
 
     fn table(&self, headers: &[String], rows: &[Vec<Cell>]) -> String {
+        if !self.color && self.width.is_none() {
+            return plain_table(headers, rows);
+        }
         let mut t = Table::new();
         t.load_preset(UTF8_FULL_CONDENSED);
         // Never ask the real terminal: colour is what the caller chose.
@@ -180,5 +240,52 @@ impl Renderer for TableRenderer {
     }
     fn wants_summary(&self) -> bool {
         true
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// comfy-table's own drawing of a table, nothing wrapped, no colour.
+    fn comfy(headers: &[String], rows: &[Vec<Cell>]) -> String {
+        let mut t = Table::new();
+        t.load_preset(UTF8_FULL_CONDENSED);
+        t.force_no_tty();
+        t.set_content_arrangement(ContentArrangement::Disabled);
+        t.set_header(headers.to_vec());
+        for r in rows {
+            t.add_row(r.iter().map(|c| c.text.clone()).collect::<Vec<_>>());
+        }
+        t.to_string()
+    }
+
+    #[test]
+    fn the_plain_path_draws_what_comfy_table_draws() {
+        let cases: Vec<(Vec<String>, Vec<Vec<Cell>>)> = vec![
+            (
+                vec!["Check".into(), "Status".into(), "Figure".into()],
+                vec![
+                    vec![
+                        Cell::from("pinned-low"),
+                        Cell::from("PASS"),
+                        Cell::from("2.93"),
+                    ],
+                    vec![
+                        Cell::from("junction-temp"),
+                        Cell::from(""),
+                        Cell::from("62.2 °C"),
+                    ],
+                ],
+            ),
+            (
+                vec!["Ω µ ±".into(), "温度".into()],
+                vec![vec![Cell::from("4.7 kΩ"), Cell::from("x")]],
+            ),
+            (vec!["only".into()], Vec::new()),
+        ];
+        for (headers, rows) in cases {
+            assert_eq!(plain_table(&headers, &rows), comfy(&headers, &rows));
+        }
     }
 }
