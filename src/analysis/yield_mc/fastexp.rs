@@ -57,17 +57,33 @@ impl FastExp {
     /// exp(x).
     #[inline(always)]
     pub fn exp(&self, x: f64) -> f64 {
-        if x.abs() < LIMIT {
-            self.reduced(x)
+        if Self::covers(x) {
+            self.exp_within(x)
         } else {
             // Also NaN.
             x.exp()
         }
     }
 
-    /// exp(x) for |x| < LIMIT.
+    /// True when `x` is inside the range [`Self::exp_within`] is exact for (false for NaN).
     #[inline(always)]
-    fn reduced(&self, x: f64) -> f64 {
+    pub fn covers(x: f64) -> bool {
+        x.abs() < LIMIT
+    }
+
+    /// exp(x) when [`Self::covers`] `x`; some finite or NaN value otherwise (the caller takes
+    /// the library's `exp` there). No branch, so that a block's exponentials run back to back.
+    #[inline(always)]
+    pub fn exp_within(&self, x: f64) -> f64 {
+        let (entry, scale, poly) = Self::reduce(x);
+        Self::finish(self.entry(entry), poly, scale)
+    }
+
+    /// The steps of [`Self::exp_within`] before the table look-up: the table entry j, 2^m as
+    /// a number to add to a double's bits (m << 52), and exp(r) - 1. Arithmetic only, so that
+    /// a loop of them runs in vector registers.
+    #[inline(always)]
+    pub fn reduce(x: f64) -> (usize, i64, f64) {
         let shifted = x * N_OVER_LN2 + ROUNDER;
         // The low bits of the shifted sum are k = round(x N / ln2) in two's complement.
         let k = shifted.to_bits() as i64 as i32;
@@ -76,10 +92,23 @@ impl FastExp {
         let p = r * (1.0 + r * (0.5 + r * (1.0 / 6.0 + r * (1.0 / 24.0 + r * (1.0 / 120.0)))));
         let j = (k & (N as i32 - 1)) as usize;
         let m = i64::from(k >> 6);
-        let t = self.table[j];
-        let mantissa = t + t * p;
+        (j, m << 52, p)
+    }
+
+    /// 2^(j/64) (`j` taken modulo 64).
+    #[inline(always)]
+    pub fn entry(&self, j: usize) -> f64 {
+        self.table[j & (N - 1)]
+    }
+
+    /// The steps after the look-up: 2^m x 2^(j/64) x exp(r) from the entry `t` and the rest of
+    /// [`Self::reduce`]'s answer.
+    #[inline(always)]
+    pub fn finish(t: f64, poly: f64, scale: i64) -> f64 {
+        let mantissa = t + t * poly;
         // Multiply by 2^m through the exponent field: |x| < 700 keeps the result normal.
-        f64::from_bits((mantissa.to_bits() as i64 + (m << 52)) as u64)
+        // (Wrapping: outside the range the sum means nothing, and must not stop the run.)
+        f64::from_bits((mantissa.to_bits() as i64).wrapping_add(scale) as u64)
     }
 }
 

@@ -12,6 +12,9 @@ const MANTISSA_BITS_KEPT: u32 = 12;
 /// Shift that keeps the sign, the exponent and `MANTISSA_BITS_KEPT` mantissa bits.
 const SHIFT: u32 = 52 - MANTISSA_BITS_KEPT;
 
+/// Values [`LogHistogram::add_mapped`] takes at a time.
+const KEYS_AT_ONCE: usize = 64;
+
 /// Counts of values in log-spaced bins between 2^`min_exp` and 2^`max_exp`, with a bin below
 /// (zero, negative, NaN and anything smaller) and a bin above (anything larger, infinity).
 #[derive(Clone, Debug, PartialEq)]
@@ -50,9 +53,35 @@ impl LogHistogram {
         }
     }
 
+    /// Count `f(x)` for every `x` of `xs`: the same as [`Self::add`] one by one, with the keys
+    /// worked out first, 64 at a time, in a loop that runs in vector registers.
+    #[inline(always)]
+    pub fn add_mapped(&mut self, xs: &[f64], f: impl Fn(f64) -> f64) {
+        let mut values = [0.0; KEYS_AT_ONCE];
+        let mut offsets = [0u64; KEYS_AT_ONCE];
+        let first_key = self.first_key;
+        let (mut below, mut above) = (0, 0);
+        let counts = &mut self.counts[..];
+        for chunk in xs.chunks(KEYS_AT_ONCE) {
+            for ((v, o), x) in values.iter_mut().zip(offsets.iter_mut()).zip(chunk) {
+                *v = f(*x);
+                *o = key(*v).wrapping_sub(first_key);
+            }
+            for (v, o) in values.iter().zip(&offsets).take(chunk.len()) {
+                match usize::try_from(*o).ok().and_then(|i| counts.get_mut(i)) {
+                    Some(c) => *c += 1,
+                    None if is_below(*v, first_key) => below += 1,
+                    None => above += 1,
+                }
+            }
+        }
+        self.below += below;
+        self.above += above;
+    }
+
     #[cold]
     fn add_outside(&mut self, x: f64) {
-        if x.is_nan() || x <= 0.0 || key(x) < self.first_key {
+        if is_below(x, self.first_key) {
             self.below += 1;
         } else {
             self.above += 1;
@@ -100,6 +129,13 @@ impl LogHistogram {
             f64::NAN
         }
     }
+}
+
+/// True for a value outside the range that goes in the bin below: NaN, zero, negative or
+/// smaller than the range.
+#[inline(always)]
+fn is_below(x: f64, first_key: u64) -> bool {
+    x.is_nan() || x <= 0.0 || key(x) < first_key
 }
 
 /// The bin key of a positive double.
@@ -151,6 +187,27 @@ mod tests {
         assert!((h.value_at_rank(5) - 1.0).abs() < 1e-3);
         assert_eq!(h.value_at_rank(6), f64::INFINITY);
         assert_eq!(h.value_at_rank(7), f64::INFINITY);
+    }
+
+    #[test]
+    fn adding_many_at_once_counts_the_same_as_one_by_one() {
+        let xs: Vec<f64> = (0..300)
+            .map(|i| match i % 7 {
+                0 => 0.0,
+                1 => -1.0,
+                2 => f64::NAN,
+                3 => 1e9,
+                _ => 0.01 * f64::from(i),
+            })
+            .collect();
+        let mut one = LogHistogram::new(-8, 8);
+        for x in &xs {
+            one.add(x + 0.5);
+        }
+        let mut many = LogHistogram::new(-8, 8);
+        many.add_mapped(&xs, |x| x + 0.5);
+        assert_eq!(one, many);
+        assert_eq!(many.total(), 300);
     }
 
     #[test]

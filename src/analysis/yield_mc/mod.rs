@@ -18,6 +18,7 @@
 
 pub mod fastexp;
 pub mod histogram;
+mod kernel;
 pub mod model;
 pub mod rng;
 
@@ -29,6 +30,7 @@ use serde::Serialize;
 use crate::analysis::corners::{Resistors, WorstCase};
 use crate::stage::Stage;
 use histogram::LogHistogram;
+use kernel::{Kernel, Work};
 use model::{Block, BuildModel, BLOCK};
 
 /// Builds a chunk: the unit of seeding, of parallel work and of progress reports.
@@ -36,6 +38,11 @@ pub const CHUNK_BUILDS: u64 = 65_536;
 
 /// Runs of chunks a worker thread gets, at most (each run keeps one tally of about 4 MB).
 const RUNS_PER_THREAD: u64 = 2;
+
+/// Chunks drawn side by side, one a lane of [`rng::Streams`].
+const LANES: usize = 4;
+const LANES_U64: u64 = LANES as u64;
+const _: () = assert!(BLOCK % LANES == 0 && CHUNK_BUILDS % (BLOCK / LANES) as u64 == 0);
 
 /// z for a two-sided 95 % interval: the 0.975 quantile of the standard normal distribution
 /// [text: any statistics table, 1.959964].
@@ -145,28 +152,36 @@ pub fn run_yield_with_progress(
     };
     let total = opts.builds;
     let chunks = total.div_ceil(CHUNK_BUILDS);
-    // Contiguous runs of chunks, a few per thread for balance; each run keeps one tally (a few
-    // MB of histograms), so memory does not grow with the number of builds.
+    // Contiguous runs of lane groups (LANES chunks), a few per thread for balance; each run
+    // keeps one tally (a few MB of histograms), so memory does not grow with the number of
+    // builds.
+    let groups = chunks.div_ceil(LANES_U64);
     let threads = u64::try_from(rayon::current_num_threads())
         .unwrap_or(1)
         .max(1);
-    let runs = chunks.min(RUNS_PER_THREAD * threads);
+    let runs = groups.min(RUNS_PER_THREAD * threads);
+    let kernel = Kernel::detect();
     let done = Mutex::new(0u64);
+    let report = |len: u64| {
+        let mut d = done.lock().unwrap_or_else(PoisonError::into_inner);
+        *d += len;
+        progress(*d, total);
+    };
+    let work = Work {
+        model: &model,
+        limits: &limits,
+        seed: opts.seed,
+        total,
+        report: &report,
+    };
     let tally = (0..runs)
         .into_par_iter()
         .map(|run| {
             let mut tally = Tally::new(&model);
-            // Run `run` takes chunks [first, end): an even split of `chunks` into `runs`.
-            let first = run * chunks / runs;
-            let end = (run + 1) * chunks / runs;
-            for chunk in first..end {
-                let start = chunk * CHUNK_BUILDS;
-                let len = CHUNK_BUILDS.min(total - start);
-                tally.run_chunk(&model, &limits, opts.seed, chunk, len);
-                let mut d = done.lock().unwrap_or_else(PoisonError::into_inner);
-                *d += len;
-                progress(*d, total);
-            }
+            // Run `run` takes the groups [first, end): an even split of `groups` into `runs`.
+            let first = run * groups / runs * LANES_U64;
+            let end = ((run + 1) * groups / runs * LANES_U64).min(chunks);
+            tally.run(kernel, &work, first..end);
             tally
         })
         .reduce_with(|mut a, b| {
@@ -213,41 +228,26 @@ impl Tally {
         }
     }
 
-    fn run_chunk(&mut self, model: &BuildModel, limits: &Limits, seed: u64, chunk: u64, len: u64) {
-        let mut rng = rng::chunk_rng(seed, chunk);
-        let mut left = len;
-        // Builds go through in blocks (see `BuildModel::evaluate_block`); each build draws from
-        // the stream in the same order as one at a time would.
-        let mut block = Block::default();
-        while left > 0 {
-            let n = usize::try_from(left).map_or(BLOCK, |l| l.min(BLOCK));
-            model.draw_block(&mut rng, &mut block, n);
-            model.evaluate_block(&mut block);
-            self.builds += n as u64;
-            self.add_block(&block, limits);
-            left -= n as u64;
-        }
-    }
-
     /// Count the builds of an evaluated block, figure by figure.
     #[inline(always)]
     fn add_block(&mut self, block: &Block, limits: &Limits) {
+        self.builds += block.overdrive().len() as u64;
+        // The counts apart from the histograms: this loop has no memory traffic but its input.
+        let (mut pinned, mut met, mut below) = (0u64, 0u64, 0u64);
         for &overdrive in block.overdrive() {
-            self.pinned += u64::from(overdrive >= 1.0);
-            self.met += u64::from(overdrive >= limits.target);
-            self.below_corner += u64::from(overdrive < limits.below_corner);
-            self.overdrive.add(overdrive);
+            pinned += u64::from(overdrive >= 1.0);
+            met += u64::from(overdrive >= limits.target);
+            below += u64::from(overdrive < limits.below_corner);
         }
-        for &pin_current in block.pin_current() {
-            self.pin_current.add(pin_current);
-        }
-        for &junction_c in block.junction_c() {
-            self.junction_k.add(junction_c + ZERO_C_IN_K);
-        }
+        self.pinned += pinned;
+        self.met += met;
+        self.below_corner += below;
+        self.overdrive.add_mapped(block.overdrive(), |x| x);
+        self.pin_current.add_mapped(block.pin_current(), |x| x);
+        self.junction_k
+            .add_mapped(block.junction_c(), |t| t + ZERO_C_IN_K);
         if let Some(h) = self.led_current.as_mut() {
-            for &led_current in block.led_current() {
-                h.add(led_current);
-            }
+            h.add_mapped(block.led_current(), |x| x);
         }
     }
 

@@ -7,11 +7,17 @@ use super::*;
 /// Builds evaluated together by [`BuildModel::evaluate_block`].
 pub const BLOCK: usize = 64;
 
+/// 64-bit draws every build takes, whatever its load (LED loads take more, one per two LEDs).
+pub(super) const WORDS: usize = 4;
+
 /// A block of builds, one array a quantity: the draws, then the figures.
 #[derive(Clone, Debug)]
 pub struct Block {
     /// Builds in the block.
     pub len: usize,
+    /// The four 64-bit draws every build takes, in stream order (see
+    /// [`BuildModel::draw_block`]).
+    pub(super) words: [[u64; BLOCK]; WORDS],
     pub(super) supply: [f64; BLOCK],
     pub(super) logic_high: [f64; BLOCK],
     pub(super) ambient: [f64; BLOCK],
@@ -33,6 +39,18 @@ pub struct Block {
     pub(super) junction_c: [f64; BLOCK],
     /// NaN for loads without an LED current.
     pub(super) led_current: [f64; BLOCK],
+    /// exp(ln(hFE / IC)) of each build, on the way to the overdrive.
+    pub(super) gain_per_ic: [f64; BLOCK],
+    /// The exponential's table entry, scale and entry value, on the way to `gain_per_ic`.
+    pub(super) exp_entry: [usize; BLOCK],
+    pub(super) exp_scale: [i64; BLOCK],
+    pub(super) exp_value: [f64; BLOCK],
+    /// The IC table's cell of each build and where in it.
+    pub(super) ic_cell: [u64; BLOCK],
+    pub(super) ic_frac: [f64; BLOCK],
+    /// ln(hFE,max / hFE,min) and VBE(sat),max at each build's IC.
+    pub(super) gain_spread: [f64; BLOCK],
+    pub(super) vbe_high: [f64; BLOCK],
 }
 
 impl Default for Block {
@@ -40,6 +58,7 @@ impl Default for Block {
         let z = [0.0; BLOCK];
         Block {
             len: 0,
+            words: [[0; BLOCK]; WORDS],
             supply: z,
             logic_high: z,
             ambient: z,
@@ -58,6 +77,14 @@ impl Default for Block {
             overdrive: z,
             junction_c: z,
             led_current: z,
+            gain_per_ic: z,
+            exp_entry: [0; BLOCK],
+            exp_scale: [0; BLOCK],
+            exp_value: z,
+            ic_cell: [0; BLOCK],
+            ic_frac: z,
+            gain_spread: z,
+            vbe_high: z,
         }
     }
 }

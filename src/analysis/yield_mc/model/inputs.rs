@@ -190,8 +190,8 @@ pub(super) struct Table<const K: usize> {
     pub(super) hi: f64,
     /// Cells per unit of x (0 for a single point).
     pub(super) scale: f64,
-    /// Index of the last cell.
-    pub(super) last: i64,
+    /// Index of the last cell (a whole number, as a double).
+    pub(super) last: f64,
     /// Per cell: the values at its left node and the rise to its right node.
     pub(super) cells: Vec<([f64; K], [f64; K])>,
 }
@@ -217,7 +217,7 @@ impl<const K: usize> Table<K> {
             lo,
             hi,
             scale: if hi > lo { n as f64 / (hi - lo) } else { 0.0 },
-            last: i64::try_from(n).unwrap_or(1) - 1,
+            last: (n - 1) as f64,
             cells,
         }
     }
@@ -225,19 +225,62 @@ impl<const K: usize> Table<K> {
     /// The interpolated values at `x`; `None` outside [lo, hi].
     #[inline(always)]
     pub(super) fn at(&self, x: f64) -> Option<[f64; K]> {
-        if !(x >= self.lo && x <= self.hi) {
-            return None;
-        }
+        self.covers(x).then(|| self.at_clamped(x))
+    }
+
+    /// True when `x` is inside [lo, hi] (false for NaN).
+    #[inline(always)]
+    pub(super) fn covers(&self, x: f64) -> bool {
+        x >= self.lo && x <= self.hi
+    }
+
+    /// The interpolated values at `x` when [`Self::covers`] it; some value of the table's
+    /// otherwise (the caller takes another path there).
+    #[inline(always)]
+    pub(super) fn at_clamped(&self, x: f64) -> [f64; K] {
+        let (cell, frac) = self.cell_of(x);
+        self.interpolate(cell, frac)
+    }
+
+    /// The cell `x` falls in and where in it (0 .. 1), when [`Self::covers`] `x`; some cell
+    /// otherwise. Arithmetic only (no branch, no conversion that checks its range), so that a
+    /// loop of them runs in vector registers.
+    #[inline(always)]
+    pub(super) fn cell_of(&self, x: f64) -> (u64, f64) {
         let t = (x - self.lo) * self.scale;
-        // t >= 0 here; i64 keeps both conversions single instructions.
-        let i = (t as i64).min(self.last);
-        let frac = (t - i as f64).min(1.0);
-        let (left, rise) = self.cells.get(i as usize)?;
+        // Inside the range t >= 0, so the clamp below 0 changes nothing there; NaN clamps to 0.
+        let i = floor_of_small(t.max(0.0).min(self.last));
+        (
+            (i + TWO_TO_52).to_bits() - TWO_TO_52.to_bits(),
+            (t - i).min(1.0),
+        )
+    }
+
+    /// The values at `frac` (0 .. 1) of the way through cell `cell`.
+    #[inline(always)]
+    pub(super) fn interpolate(&self, cell: u64, frac: f64) -> [f64; K] {
+        // `cell` is at most `last` (`cell_of`), so `get` always finds it.
+        let Some((left, rise)) = usize::try_from(cell).ok().and_then(|i| self.cells.get(i)) else {
+            return [f64::NAN; K];
+        };
         let mut out = [0.0; K];
         for k in 0..K {
             out[k] = left[k] + rise[k] * frac;
         }
-        Some(out)
+        out
+    }
+}
+
+/// floor(t) for 0 <= t < 2^51, exactly: t + 2^52 rounds t to a whole number (the nearest), one
+/// less when that lies above t [common practice; IEEE 754 round to nearest, std IEEE
+/// 754-2008]. The same as `t as i64` there, without the checks a conversion makes.
+#[inline(always)]
+fn floor_of_small(t: f64) -> f64 {
+    let nearest = (t + TWO_TO_52) - TWO_TO_52;
+    if nearest > t {
+        nearest - 1.0
+    } else {
+        nearest
     }
 }
 

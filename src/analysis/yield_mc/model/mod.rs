@@ -44,6 +44,7 @@ use inputs::*;
 use rand_xoshiro::rand_core::RngCore;
 
 use super::fastexp::FastExp;
+use super::rng::Lanes;
 use crate::analysis::corners::Resistors;
 use crate::analysis::temperature::{T_REF_C, VBE_TEMPCO_V_PER_K, ZERO_C_IN_K};
 use crate::load::{Load, COPPER_ALPHA_PER_K, COPPER_REF_C};
@@ -259,73 +260,117 @@ impl BuildModel {
     /// uniform over its range (the gain log-uniform between its limits), LED forward voltages
     /// one per LED. Each 64-bit output gives two uniforms of 32 bits (steps of 2^-32 of a
     /// range, far finer than any tolerance matters). Inputs a load does not have are 0.
+    ///
+    /// A build takes four outputs: (VCC, VOH), (Ta, RB), (RBE, VBE position), (gain position,
+    /// the load's own input: coil or RL, drawn for every load so that the layout is the same),
+    /// high half first; then one output per two LEDs (the high half for an odd last one).
     #[inline]
     pub fn draw_block<R: RngCore>(&self, rng: &mut R, b: &mut Block, n: usize) {
-        let n = n.min(BLOCK);
-        b.len = n;
-        let r = &self.ranges;
-        match self.load {
-            LoadModel::Relay { .. } => {
-                for j in 0..n {
-                    let k_load = self.draw_common(rng, b, j);
-                    b.coil_20c[j] = r.load.at(k_load);
-                }
-                b.rl[..n].fill(0.0);
-                b.led_drop[..n].fill(0.0);
-            }
-            LoadModel::Led {
-                count,
-                forward_min,
-                forward_span,
-                ..
-            } => {
-                let forward_step = forward_span * UNIT_STEP;
-                for j in 0..n {
-                    let k_load = self.draw_common(rng, b, j);
-                    b.rl[j] = r.load.at(k_load);
-                    let mut drop = 0.0;
-                    let mut left = count;
-                    while left >= 2 {
-                        let (k1, k2) = step_pair(rng);
-                        drop += 2.0 * forward_min + forward_step * (k1 + k2);
-                        left -= 2;
-                    }
-                    if left == 1 {
-                        drop += forward_min + forward_step * step_pair(rng).0;
-                    }
-                    b.led_drop[j] = drop;
-                }
-                b.coil_20c[..n].fill(0.0);
-            }
-            LoadModel::Current(_) | LoadModel::LedTarget(_) | LoadModel::Strip(_) => {
-                for j in 0..n {
-                    self.draw_common(rng, b, j);
-                }
-                b.rl[..n].fill(0.0);
-                b.coil_20c[..n].fill(0.0);
-                b.led_drop[..n].fill(0.0);
-            }
-        }
+        self.draw_words(&mut OneStream(rng), b, n);
     }
 
-    /// The draws every load has, into build `j` of the block; returns the step count for the
-    /// load's own input (drawn whether the load uses it or not, so the stream's layout is the
-    /// same for every load: four 64-bit outputs a build, then one per two LEDs).
+    /// Draw `n` builds (at most [`BLOCK`], a multiple of `L`) from `L` generators stepped
+    /// together: builds `L s .. L s + L` of the block are the `s`-th builds of lanes `0 .. L`,
+    /// each drawn from its lane's stream exactly as [`Self::draw_block`] draws from one, so a
+    /// build is the same whichever way its chunk is drawn.
     #[inline(always)]
-    fn draw_common<R: RngCore>(&self, rng: &mut R, b: &mut Block, j: usize) -> f64 {
+    pub fn draw_block_lanes<const L: usize>(
+        &self,
+        streams: &mut impl Lanes<L>,
+        b: &mut Block,
+        n: usize,
+    ) {
+        self.draw_words(streams, b, n);
+    }
+
+    /// The stream outputs of `n` builds, lane by lane, then their inputs.
+    #[inline(always)]
+    fn draw_words<const L: usize>(&self, source: &mut impl Lanes<L>, b: &mut Block, n: usize) {
+        let steps = n.min(BLOCK) / L.max(1);
+        let n = steps * L;
+        b.len = n;
+        let LoadModel::Led {
+            count,
+            forward_min,
+            forward_span,
+            ..
+        } = self.load
+        else {
+            source.fill(&mut b.words, steps);
+            self.inputs_from_words(b, n);
+            return;
+        };
+        // LEDs: each build's four outputs, then its LEDs' (one per two), lane by lane.
+        let forward_step = forward_span * UNIT_STEP;
+        for step in 0..steps {
+            let at = step * L;
+            for word in b.words.iter_mut() {
+                word[at..at + L].copy_from_slice(&source.next());
+            }
+            let mut drop = [0.0; L];
+            let mut left = count;
+            while left >= 2 {
+                let w = source.next();
+                for l in 0..L {
+                    let (k1, k2) = halves(w[l]);
+                    drop[l] += 2.0 * forward_min + forward_step * (k1 + k2);
+                }
+                left -= 2;
+            }
+            if left == 1 {
+                let w = source.next();
+                for l in 0..L {
+                    drop[l] += forward_min + forward_step * halves(w[l]).0;
+                }
+            }
+            b.led_drop[at..at + L].copy_from_slice(&drop);
+        }
+        self.inputs_from_words(b, n);
+    }
+
+    /// The inputs of builds `0 .. n` from their stream outputs, quantity by quantity.
+    #[inline(always)]
+    fn inputs_from_words(&self, b: &mut Block, n: usize) {
         let r = &self.ranges;
-        let (k_supply, k_high) = step_pair(rng);
-        let (k_ambient, k_rb) = step_pair(rng);
-        let (k_rbe, k_vbe) = step_pair(rng);
-        let (k_gain, k_load) = step_pair(rng);
-        b.supply[j] = r.supply.at(k_supply);
-        b.logic_high[j] = r.logic_high.at(k_high);
-        b.ambient[j] = r.ambient.at(k_ambient);
-        b.rb[j] = r.rb.at(k_rb);
-        b.rbe[j] = r.rbe.at(k_rbe);
-        b.vbe_position[j] = k_vbe * UNIT_STEP;
-        b.gain_position[j] = k_gain * UNIT_STEP;
-        k_load
+        let [w0, w1, w2, w3] = &b.words;
+        for j in 0..n {
+            let (k_supply, k_high) = halves(w0[j]);
+            b.supply[j] = r.supply.at(k_supply);
+            b.logic_high[j] = r.logic_high.at(k_high);
+        }
+        for j in 0..n {
+            let (k_ambient, k_rb) = halves(w1[j]);
+            b.ambient[j] = r.ambient.at(k_ambient);
+            b.rb[j] = r.rb.at(k_rb);
+        }
+        for j in 0..n {
+            let (k_rbe, k_vbe) = halves(w2[j]);
+            b.rbe[j] = r.rbe.at(k_rbe);
+            b.vbe_position[j] = k_vbe * UNIT_STEP;
+        }
+        let load = match self.load {
+            LoadModel::Relay { .. } => {
+                b.rl[..n].fill(0.0);
+                b.led_drop[..n].fill(0.0);
+                &mut b.coil_20c
+            }
+            LoadModel::Led { .. } => {
+                b.coil_20c[..n].fill(0.0);
+                &mut b.rl
+            }
+            LoadModel::Current(_) | LoadModel::LedTarget(_) | LoadModel::Strip(_) => {
+                b.rl[..n].fill(0.0);
+                b.led_drop[..n].fill(0.0);
+                b.coil_20c[..n].fill(0.0);
+                // Drawn all the same; nothing reads it.
+                &mut b.led_current
+            }
+        };
+        for j in 0..n {
+            let (k_gain, k_load) = halves(w3[j]);
+            b.gain_position[j] = k_gain * UNIT_STEP;
+            load[j] = r.load.at(k_load);
+        }
     }
 
     /// The build with every input at the end the worst-case corner takes for the overdrive
@@ -404,8 +449,10 @@ impl BuildModel {
     /// The figures of the builds of a block. The work goes step by step over the whole block,
     /// column by column, so that the processor overlaps (and the compiler pairs) the divisions,
     /// look-ups and exponentials of different builds instead of waiting on one build's chain of
-    /// them; each build's arithmetic is the same as alone.
-    #[inline]
+    /// them; each build's arithmetic is the same as alone. The rare builds outside the tables
+    /// (or the fast exponential's range) are redone afterwards on the exact path, so the common
+    /// steps have no branch.
+    #[inline(always)]
     pub fn evaluate_block(&self, b: &mut Block) {
         let n = b.len.min(BLOCK);
         // Collector current, VCE(sat) taken as 0 (stage-model 4). `max` also turns NaN into 0.
@@ -427,14 +474,39 @@ impl BuildModel {
                 }
             }
         }
+        // The IC terms: which table cell, in vector registers; the look-ups, build by build;
+        // the rare builds outside the table on the exact path; then the terms' arithmetic in
+        // vector registers again.
+        match &self.ic_table {
+            Some(table) => {
+                let mut outside = false;
+                for j in 0..n {
+                    outside |= !table.covers(b.ic[j]);
+                    (b.ic_cell[j], b.ic_frac[j]) = table.cell_of(b.ic[j]);
+                }
+                for j in 0..n {
+                    Self::store_ic_terms(b, j, table.interpolate(b.ic_cell[j], b.ic_frac[j]));
+                }
+                if outside {
+                    for j in 0..n {
+                        if !table.covers(b.ic[j]) {
+                            Self::store_ic_terms(b, j, self.ic_terms_exact(b.ic[j]));
+                        }
+                    }
+                }
+            }
+            None => {
+                for j in 0..n {
+                    Self::store_ic_terms(b, j, self.ic_terms_exact(b.ic[j]));
+                }
+            }
+        }
         for j in 0..n {
-            let [per_ic, spread, vbe_lo, vbe_hi, vce_max] = self.ic_terms(b.ic[j]);
             // VBE(sat) between the part's limits at the build's IC, at 25 C (moved to the
             // build's ambient below).
-            b.vbe[j] = vbe_lo + (vbe_hi - vbe_lo) * b.vbe_position[j];
-            b.vce[j] = vce_max;
+            b.vbe[j] += (b.vbe_high[j] - b.vbe[j]) * b.vbe_position[j];
             // ln(hFE,25C / IC): log-uniform between the limits.
-            b.overdrive[j] = per_ic + spread * b.gain_position[j];
+            b.overdrive[j] += b.gain_spread[j] * b.gain_position[j];
         }
         for j in 0..n {
             // -2 mV/K from the 25 C figures [text], as `temperature::vbe_at`.
@@ -443,19 +515,41 @@ impl BuildModel {
             b.pin_current[j] = (b.logic_high[j] - b.vbe[j]) / b.rb[j];
             b.base_current[j] = b.pin_current[j] - b.vbe[j] / b.rbe[j];
         }
-        // hFE x IB / IC = IB x exp(ln(hFE,25C / IC)) x (T/Tref)^XTB; 0 when the build cannot
-        // turn on; infinite when the load draws nothing.
+        // hFE / IC = exp(ln(hFE,25C / IC)), in three loops: the arithmetic before and after
+        // the exponential's table look-up runs in vector registers, the look-ups between.
+        let mut outside = false;
+        for j in 0..n {
+            let x = b.overdrive[j];
+            outside |= !FastExp::covers(x);
+            let (entry, scale, poly) = FastExp::reduce(x);
+            b.exp_entry[j] = entry;
+            b.exp_scale[j] = scale;
+            b.gain_per_ic[j] = poly;
+        }
+        for j in 0..n {
+            b.exp_value[j] = self.exp.entry(b.exp_entry[j]);
+        }
+        for j in 0..n {
+            b.gain_per_ic[j] = FastExp::finish(b.exp_value[j], b.gain_per_ic[j], b.exp_scale[j]);
+        }
+        if outside {
+            for j in 0..n {
+                let x = b.overdrive[j];
+                if !FastExp::covers(x) {
+                    b.gain_per_ic[j] = x.exp();
+                }
+            }
+        }
+        // hFE x IB / IC = IB x hFE,25C / IC x (T/Tref)^XTB; 0 when the build cannot turn on;
+        // infinite when the load draws nothing.
         for j in 0..n {
             let (c, ib) = (b.ic[j], b.base_current[j]);
-            b.overdrive[j] = if ib > 0.0 {
-                if c > 0.0 {
-                    ib * self.exp.exp(b.overdrive[j])
-                } else {
-                    f64::INFINITY
-                }
+            let on = if c > 0.0 {
+                ib * b.gain_per_ic[j]
             } else {
-                0.0
+                f64::INFINITY
             };
+            b.overdrive[j] = if ib > 0.0 { on } else { 0.0 };
         }
         // The gain's temperature factor; for the usual XTB = 1.5, ratio x sqrt(ratio).
         match self.temperature_gain {
@@ -485,13 +579,16 @@ impl BuildModel {
         }
     }
 
-    /// The IC-dependent terms from the table when IC is inside it, else exactly.
+    /// Put build `j`'s IC terms where the block keeps them: ln(hFE,min / IC) in `overdrive`,
+    /// VBE(sat),min in `vbe`, VCE(sat),max in `vce`.
     #[inline(always)]
-    fn ic_terms(&self, ic: f64) -> [f64; 5] {
-        match self.ic_table.as_ref().and_then(|t| t.at(ic)) {
-            Some(v) => v,
-            None => self.ic_terms_exact(ic),
-        }
+    fn store_ic_terms(b: &mut Block, j: usize, terms: [f64; 5]) {
+        let [per_ic, spread, vbe_lo, vbe_hi, vce_max] = terms;
+        b.overdrive[j] = per_ic;
+        b.gain_spread[j] = spread;
+        b.vbe[j] = vbe_lo;
+        b.vbe_high[j] = vbe_hi;
+        b.vce[j] = vce_max;
     }
 
     /// At IC: [ln hFE,min - ln IC, ln hFE,max - ln hFE,min, VBE(sat),min, VBE(sat),max (25 C),
@@ -539,6 +636,16 @@ fn copper(r20: f64, t: f64) -> f64 {
     r20 * (1.0 + COPPER_ALPHA_PER_K * (t - COPPER_REF_C))
 }
 
+/// Any generator as a source of one lane.
+struct OneStream<'a, R>(&'a mut R);
+
+impl<R: RngCore> Lanes<1> for OneStream<'_, R> {
+    #[inline(always)]
+    fn next(&mut self) -> [u64; 1] {
+        [self.0.next_u64()]
+    }
+}
+
 /// 2^-32: one step of a uniform draw.
 const UNIT_STEP: f64 = 1.0 / 4_294_967_296.0;
 
@@ -546,10 +653,20 @@ const UNIT_STEP: f64 = 1.0 / 4_294_967_296.0;
 /// low halves (xoshiro256++ has no weak low bits, per its authors, from memory). Times
 /// [`UNIT_STEP`] they are uniform in [0, 1).
 #[inline(always)]
-fn step_pair<R: RngCore>(rng: &mut R) -> (f64, f64) {
-    let x = rng.next_u64();
-    // Through u32: a single conversion instruction each.
-    (f64::from((x >> 32) as u32), f64::from(x as u32))
+fn halves(x: u64) -> (f64, f64) {
+    (whole(x >> 32), whole(x & 0xFFFF_FFFF))
+}
+
+/// 2^52 as a double.
+const TWO_TO_52: f64 = 4_503_599_627_370_496.0;
+
+/// A whole number below 2^52 as a double, exactly: placed in the mantissa of 2^52, which is
+/// then taken away [common practice; IEEE 754 binary64 layout, std IEEE 754-2008]. The same
+/// value as a conversion instruction gives, and it vectorises on every x86-64 (which has no
+/// packed conversion from unsigned integers before AVX-512).
+#[inline(always)]
+fn whole(k: u64) -> f64 {
+    f64::from_bits(k | TWO_TO_52.to_bits()) - TWO_TO_52
 }
 
 #[cfg(test)]
