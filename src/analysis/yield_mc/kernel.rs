@@ -13,8 +13,12 @@ use std::ops::Range;
 #[cfg(target_arch = "x86_64")]
 use super::rng::Avx2Streams;
 use super::rng::{Lanes, Streams};
-use super::{Limits, Tally, CHUNK_BUILDS, LANES, LANES_U64};
+use super::{Limits, Tally, CHUNK_BUILDS, LANES};
 use crate::analysis::yield_mc::model::{Block, BuildModel, BLOCK};
+
+/// Chunks the portable kernel steps together (without vector integer instructions the
+/// compiler keeps each lane's state in general registers: two lanes fit, four spill).
+const PORTABLE_LANES: usize = 2;
 
 /// The instruction set the hot loop runs on.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -73,7 +77,7 @@ impl Tally {
 
     fn run_portable(&mut self, work: &Work, chunks: Range<u64>) {
         self.run_body(work, chunks, |seed, first| {
-            Some(Streams::<LANES>::of_chunks(seed, first))
+            Some(Streams::<PORTABLE_LANES>::of_chunks(seed, first))
         });
     }
 
@@ -92,28 +96,29 @@ impl Tally {
     /// builds either way. Inlined into each kernel, so that each compiles it for its own
     /// instructions.
     #[inline(always)]
-    fn run_body<S: Lanes<LANES>>(
+    fn run_body<const L: usize, S: Lanes<L>>(
         &mut self,
         work: &Work,
         chunks: Range<u64>,
         lanes: impl Fn(u64, u64) -> Option<S>,
     ) {
+        let width = L as u64;
         let mut chunk = chunks.start;
-        while chunk + LANES_U64 <= chunks.end && (chunk + LANES_U64) * CHUNK_BUILDS <= work.total {
+        while chunk + width <= chunks.end && (chunk + width) * CHUNK_BUILDS <= work.total {
             match lanes(work.seed, chunk) {
                 Some(mut streams) => {
                     let mut block = Block::default();
-                    // Each block takes BLOCK / LANES builds of every chunk.
-                    for _ in 0..CHUNK_BUILDS * LANES_U64 / BLOCK as u64 {
+                    // Each block takes BLOCK / L builds of every chunk.
+                    for _ in 0..CHUNK_BUILDS * width / BLOCK as u64 {
                         self.add_built(work, &mut streams, &mut block, BLOCK);
                     }
-                    for _ in 0..LANES {
+                    for _ in 0..L {
                         (work.report)(CHUNK_BUILDS);
                     }
                 }
                 None => break,
             }
-            chunk += LANES_U64;
+            chunk += width;
         }
         for chunk in chunk..chunks.end {
             let start = chunk * CHUNK_BUILDS;
@@ -142,5 +147,43 @@ impl Tally {
         work.model.draw_block_lanes(streams, block, n);
         work.model.evaluate_block(block);
         self.add_block(block, work.limits);
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::analysis::analyse;
+    use crate::analysis::yield_mc::tests::relay_stage;
+    use crate::stage::PullDown;
+
+    /// Chunks drawn four at a time in lanes count the same builds as drawn one by one.
+    #[test]
+    fn lanes_and_single_chunks_count_the_same_builds() {
+        let stage = relay_stage(Some(4700.0), PullDown::None);
+        let model = BuildModel::new(&stage, analyse(&stage).worst.resistors);
+        let limits = Limits {
+            target: 2.0,
+            below_corner: 0.5,
+        };
+        let work = Work {
+            model: &model,
+            limits: &limits,
+            seed: 21,
+            total: 8 * CHUNK_BUILDS,
+            report: &|_| {},
+        };
+        for kernel in Kernel::available() {
+            let mut lanes = Tally::new(&model);
+            lanes.run(kernel, &work, 0..8);
+            let mut alone = Tally::new(&model);
+            for chunk in 0..8 {
+                // A run shorter than a lane group draws its chunks one at a time.
+                alone.run(kernel, &work, chunk..chunk + 1);
+            }
+            assert_eq!(lanes.builds, 8 * CHUNK_BUILDS);
+            assert_eq!(lanes.result(21), alone.result(21), "{kernel:?}");
+            assert!(lanes.pinned > 0 && lanes.pinned < lanes.builds);
+        }
     }
 }

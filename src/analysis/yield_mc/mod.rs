@@ -9,7 +9,9 @@
 //! Determinism: the builds are split into chunks of [`CHUNK_BUILDS`]; chunk `i` draws from its own
 //! generator seeded from (seed, i), chunks run in parallel with rayon, and every tally is an
 //! integer count, so the merged figures are the same whatever the number of threads and whatever
-//! order the chunks finish in.
+//! order the chunks finish in. A run steps the generators of several whole chunks together, one
+//! a lane ([`rng::Streams`]); a lane draws exactly its chunk's stream, so a chunk's builds are
+//! the same however it is drawn ([`kernel`] says how the loop is compiled).
 //!
 //! Percentiles come from fixed log-spaced histograms ([`histogram`]) rather than from stored
 //! values: memory stays bounded (about 4 MB of histograms per run of chunks, two runs a worker
@@ -140,6 +142,17 @@ pub fn run_yield_with_progress(
     opts: &YieldOptions,
     progress: &(dyn Fn(u64, u64) + Sync),
 ) -> YieldResult {
+    run_on(Kernel::detect(), stage, resistors, opts, progress)
+}
+
+/// As [`run_yield_with_progress`], on a given kernel.
+fn run_on(
+    kernel: Kernel,
+    stage: &Stage,
+    resistors: Resistors,
+    opts: &YieldOptions,
+    progress: &(dyn Fn(u64, u64) + Sync),
+) -> YieldResult {
     let model = BuildModel::new(stage, resistors);
     let corner = WorstCase::of(stage, resistors).overdrive_min;
     let limits = Limits {
@@ -160,7 +173,6 @@ pub fn run_yield_with_progress(
         .unwrap_or(1)
         .max(1);
     let runs = groups.min(RUNS_PER_THREAD * threads);
-    let kernel = Kernel::detect();
     let done = Mutex::new(0u64);
     let report = |len: u64| {
         let mut d = done.lock().unwrap_or_else(PoisonError::into_inner);

@@ -383,6 +383,39 @@ fn one_thread_and_two_threads_give_identical_figures() {
     }
 }
 
+#[test]
+fn every_kernel_gives_identical_figures() {
+    let kernels = super::kernel::Kernel::available();
+    eprintln!("kernels on this processor: {kernels:?}");
+    let five_leds = Stage {
+        load: Load::Led(Led {
+            count: 5,
+            forward: volts(1.9),
+            forward_min: volts(1.7),
+            forward_max: volts(2.1),
+            current: amps(0.01),
+            max_current: None,
+            resistor: None,
+        }),
+        ..led_stage()
+    };
+    for stage in [relay_stage(None, PullDown::Sized), led_stage(), five_leds] {
+        let r = resistors_of(&stage);
+        // Two lane groups of whole chunks, then whole and short chunks one at a time.
+        let opts = YieldOptions {
+            builds: 10 * CHUNK_BUILDS + 4_321,
+            seed: 0xC0DE,
+        };
+        let results: Vec<YieldResult> = kernels
+            .iter()
+            .map(|&k| in_pool(1, || super::run_on(k, &stage, r, &opts, &|_, _| {})))
+            .collect();
+        for pair in results.windows(2) {
+            assert_eq!(pair[0], pair[1], "{}", stage.name);
+        }
+    }
+}
+
 // ---- percentiles against an exact sort ----
 
 #[test]

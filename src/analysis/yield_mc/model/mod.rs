@@ -329,6 +329,8 @@ impl BuildModel {
     }
 
     /// The inputs of builds `0 .. n` from their stream outputs, quantity by quantity.
+    // Indexed loops over `0..n`, as in `evaluate_block`: one build index across several arrays.
+    #[allow(clippy::needless_range_loop)]
     #[inline(always)]
     fn inputs_from_words(&self, b: &mut Block, n: usize) {
         let r = &self.ranges;
