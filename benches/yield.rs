@@ -8,7 +8,7 @@
 use std::time::Instant;
 
 use pinlow::analysis::analyse;
-use pinlow::analysis::yield_mc::{run_yield, YieldOptions, YieldResult};
+use pinlow::analysis::yield_mc::{run_yield, YieldOptions, YieldResult, YieldStage};
 use pinlow::board::parse_board;
 use pinlow::parts::Library;
 
@@ -55,7 +55,8 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
     let lib = Library::builtin()?;
     let board = parse_board("bench", BOARD, &lib)?;
     let stage = board.stages.first().ok_or("the bench board has a stage")?;
-    let resistors = analyse(stage).worst.resistors;
+    let analysis = analyse(stage);
+    let stage = YieldStage::of(stage, &analysis).ok_or("the bench stage is an NPN stage")?;
     let opts = YieldOptions { builds, seed: 42 };
 
     let mut first: Option<YieldResult> = None;
@@ -67,14 +68,14 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
             builds: builds / 10,
             ..opts
         };
-        pool.install(|| run_yield(stage, resistors, &warm));
+        pool.install(|| run_yield(&stage, &warm));
         let mut wall = Vec::new();
         let mut cpu = Vec::new();
         let mut result = None;
         for _ in 0..RUNS {
             let cpu_start = process_cpu_ns();
             let start = Instant::now();
-            let r = pool.install(|| run_yield(stage, resistors, &opts));
+            let r = pool.install(|| run_yield(&stage, &opts));
             wall.push(start.elapsed().as_secs_f64() * 1e9 / builds as f64);
             if let (Some(a), Some(b)) = (cpu_start, process_cpu_ns()) {
                 cpu.push(b.saturating_sub(a) as f64 / builds as f64);

@@ -350,8 +350,16 @@ fn yield_adds_a_seeded_monte_carlo_to_each_stage() {
     let (code, out, err) = run(&args);
     assert_eq!(code, 1, "{err}");
     let v: serde_json::Value = serde_json::from_str(&out).expect("JSON");
+    let mut modelled = 0;
     for s in v["stages"].as_array().expect("stages") {
         let y = &s["yield"];
+        if s["drive"] == "nmos" {
+            // No yield model for MOSFET stages yet: the report says so instead of leaving it out.
+            assert_eq!(y["modelled"], false, "{}", s["name"]);
+            assert!(y["reason"].as_str().is_some_and(|r| r.contains("nmos")));
+            continue;
+        }
+        modelled += 1;
         assert_eq!(y["builds"], 20000);
         assert_eq!(y["seed"], 42);
         for key in ["pinned_low_fraction", "overdrive_met_fraction"] {
@@ -369,6 +377,7 @@ fn yield_adds_a_seeded_monte_carlo_to_each_stage() {
             assert_eq!(y["pinned_low_fraction"], 1.0, "{}", s["name"]);
         }
     }
+    assert!(modelled >= 6, "the NPN stages have a yield: {modelled}");
     // The same seed gives the same figures.
     let (_, again, _) = run(&args);
     assert_eq!(out, again);
