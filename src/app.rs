@@ -23,6 +23,8 @@ use crate::stage::Stage;
 mod flags;
 mod parts_view;
 mod progress;
+mod schema;
+mod shell;
 
 /// Seed of the yield draws when `--seed` is not given.
 pub const DEFAULT_SEED: u64 = 1;
@@ -58,6 +60,9 @@ pub fn run(
         no_color,
     };
     match &cli.command {
+        Command::Schema { file } => schema::print(*file, out),
+        Command::Completions { shell } => shell::completions(*shell, out),
+        Command::Man => shell::man(out),
         Command::Parts(PartsCommand::Check { files, output }) => parts_check(files, output, out),
         Command::Parts(PartsCommand::List {
             format,
