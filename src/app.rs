@@ -24,6 +24,8 @@ mod fix;
 mod flags;
 mod parts_view;
 mod progress;
+mod schema;
+mod shell;
 
 /// Seed of the yield draws when `--seed` is not given.
 pub const DEFAULT_SEED: u64 = 1;
@@ -70,6 +72,9 @@ pub fn run(
             let verdict = fix::run(board, output, *force, &lib, inputs, out)?;
             Ok(exit_code(verdict, *strict))
         }
+        Command::Schema { file } => schema::print(*file, out),
+        Command::Completions { shell } => shell::completions(*shell, out),
+        Command::Man => shell::man(out),
         Command::Parts(PartsCommand::Check { files, output }) => parts_check(files, output, out),
         Command::Parts(PartsCommand::List {
             format,

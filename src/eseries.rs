@@ -9,7 +9,17 @@ use std::str::FromStr;
 use crate::quantity::{ohms, Base, Resistance};
 
 /// A series of preferred numbers.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, serde::Serialize, serde::Deserialize)]
+#[derive(
+    Clone,
+    Copy,
+    Debug,
+    PartialEq,
+    Eq,
+    Hash,
+    serde::Serialize,
+    serde::Deserialize,
+    schemars::JsonSchema,
+)]
 pub enum Series {
     /// 6 values a decade (20 %).
     E6,

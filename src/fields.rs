@@ -241,6 +241,18 @@ impl<'a> Fields<'a> {
     }
 }
 
+/// The numbers a field of a raw object accepts, as the field tables of the load kinds and clamps
+/// state it: the JSON Schemas are made from it, and tests hold the readers to it.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub enum Accepts {
+    /// Positive, finite and inside the span.
+    Span(Span),
+    /// A tolerance: from 0 up to (not including) 1.
+    Fraction,
+    /// A whole number from the first to the second, both included.
+    Whole(u32, u32),
+}
+
 /// A tolerance: from 0 up to (not including) 1.
 pub fn check_fraction(v: f64, place: Place) -> Result<f64> {
     if v.is_finite() && (0.0..1.0).contains(&v) {

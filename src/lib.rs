@@ -39,6 +39,7 @@ pub mod quantity;
 pub mod read;
 pub mod remedy;
 pub mod report;
+pub mod schema;
 pub mod shape;
 pub mod stage;
 

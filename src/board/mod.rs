@@ -5,8 +5,8 @@ mod raw;
 mod resolve;
 pub mod stream;
 
-pub use raw::{Grade, RawStage, STAGE_KEYS};
-pub use resolve::{flag_for, resolve_stage, resolve_with, AMBIENT_RANGE_C};
+pub use raw::{Grade, RawStage, NEEDED_KEYS, STAGE_KEYS};
+pub use resolve::{flag_for, resolve_stage, resolve_with, AMBIENT_RANGE_C, OVERDRIVE};
 pub use stream::{BoardStream, RawElement, RawText, STDIN_LABEL};
 
 use std::path::Path;
@@ -190,10 +190,13 @@ pub fn board_name(file: &str, value: Option<&Value>) -> Result<Option<String>> {
     }
 }
 
-/// A stage (or the defaults) as a raw stage: an object without nulls except `pull_down_ohms`.
+/// The only stage key that may be `null` (it means: no pull-down).
+pub const NULL_KEYS: &[&str] = &["pull_down_ohms"];
+
+/// A stage (or the defaults) as a raw stage: an object without nulls except [`NULL_KEYS`].
 pub fn raw_stage(file: &str, path: &str, value: &Value, what: &str) -> Result<RawStage> {
     crate::shape::object(value, file, path, what)?;
-    crate::shape::no_nulls(value, file, path, &["pull_down_ohms"])?;
+    crate::shape::no_nulls(value, file, path, NULL_KEYS)?;
     from_value(file, path, value)
 }
 

@@ -2,20 +2,24 @@
 //! `defaults`), unknown keys refused. The `load` and `clamp` objects stay raw JSON objects here:
 //! their kind decides which keys they take (`load::KINDS`, `load::Clamp`).
 
+use schemars::JsonSchema;
 use serde::{Deserialize, Deserializer, Serialize};
 use serde_json::{Map, Value};
 
+use super::resolve::{AMBIENT_RANGE_C, OVERDRIVE};
 use crate::eseries::Series;
+use crate::fields::Accepts;
+use crate::quantity::limits::{AMPS, OHMS, VOLTS, WATTS};
 
 /// Temperature grades and their ambient ranges [practice].
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Deserialize, Serialize)]
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Deserialize, Serialize, JsonSchema)]
 #[serde(rename_all = "lowercase")]
 pub enum Grade {
-    /// 0 .. 70 C.
+    /// Ambient 0 to 70 °C.
     Commercial,
-    /// -40 .. 85 C.
+    /// Ambient -40 to 85 °C.
     Industrial,
-    /// -40 .. 125 C.
+    /// Ambient -40 to 125 °C.
     Automotive,
 }
 
@@ -61,48 +65,69 @@ pub const STAGE_KEYS: &[&str] = &[
     "overdrive",
 ];
 
-/// One stage (or the defaults) as written.
-#[derive(Clone, Debug, Default, Deserialize, Serialize, PartialEq)]
+/// The keys a stage cannot do without, from itself or from `defaults` (`name` besides, from the
+/// stage itself only).
+pub const NEEDED_KEYS: &[&str] = &["part", "supply_v", "logic_high_v", "load"];
+
+/// One stage (or the defaults) as written. Its JSON Schema (`pinlow schema board`) is derived
+/// from it: the doc comments below are the descriptions an editor shows.
+#[derive(Clone, Debug, Default, Deserialize, Serialize, PartialEq, JsonSchema)]
 #[serde(deny_unknown_fields)]
+#[schemars(
+    description = "One stage: a logic pin driving a switch that pins a load to ground. Every field but `name` may stand in `defaults` instead; the stage's own value wins.",
+    transform = crate::schema::exclusive(&["ambient_c", "grade"])
+)]
 pub struct RawStage {
-    /// The stage's name (not allowed in defaults).
+    /// The stage's name in the report (a stage's own; not allowed in `defaults`).
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[schemars(length(min = 1))]
     pub name: Option<String>,
-    /// Part id.
+    /// Part id from the parts library (`pinlow parts list`), matched without regard to case.
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[schemars(length(min = 1))]
     pub part: Option<String>,
-    /// Nominal supply, V.
+    /// Nominal supply of the load, V.
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(VOLTS)))]
     pub supply_v: Option<f64>,
-    /// Supply +/- fraction.
+    /// Supply tolerance, ± fraction [default: 0.05].
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[schemars(transform = crate::schema::accepts(Accepts::Fraction))]
     pub supply_tolerance: Option<f64>,
-    /// Nominal logic high, V.
+    /// The pin's nominal logic high (its supply), V.
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(VOLTS)))]
     pub logic_high_v: Option<f64>,
-    /// Guaranteed logic high, V.
+    /// Guaranteed logic high at the pin's rated current, V, at most `logic_high_v` [default: logic high - 0.4 V].
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(VOLTS)))]
     pub logic_high_min_v: Option<f64>,
-    /// Pin source limit, A.
+    /// Most current the pin may source, A [default: 0.004].
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(AMPS)))]
     pub pin_limit_a: Option<f64>,
-    /// Ambient range [min, max], C.
+    /// Ambient range [minimum, maximum], °C (instead of `grade`) [default: 0 to 70].
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[schemars(transform = crate::schema::items_between(*AMBIENT_RANGE_C.start(), *AMBIENT_RANGE_C.end()))]
     pub ambient_c: Option<[f64; 2]>,
     /// Temperature grade (instead of `ambient_c`).
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub grade: Option<Grade>,
-    /// The load object (its `kind` picks the load kind).
+    /// The load object; its `kind` picks the load kind and the keys it takes.
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[schemars(schema_with = "crate::schema::load_object")]
     pub load: Option<Map<String, Value>>,
-    /// The clamp object.
+    /// The turn-off clamp across an inductive load; its `kind` picks the keys it takes.
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[schemars(schema_with = "crate::schema::clamp_object")]
     pub clamp: Option<Map<String, Value>>,
     /// Given base resistor of an npn stage, ohms; absent: size it.
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(OHMS)))]
     pub base_resistor_ohms: Option<f64>,
     /// Given gate resistor of an nmos stage, ohms; absent: size it.
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(OHMS)))]
     pub gate_resistor_ohms: Option<f64>,
     /// Pull-down: absent (`None`), `null` (`Some(None)`) or a value.
     #[serde(
@@ -110,18 +135,25 @@ pub struct RawStage {
         deserialize_with = "present",
         skip_serializing_if = "Option::is_none"
     )]
+    #[schemars(
+        description = "Pull-down from the base (or gate) to ground, ohms; null: none. Absent: none with a given base or gate resistor, sized when sizing.",
+        transform = crate::schema::accepts(Accepts::Span(OHMS))
+    )]
     pub pull_down_ohms: Option<Option<f64>>,
-    /// Resistor +/- fraction.
+    /// Resistor tolerance, ± fraction [default: 0.05].
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[schemars(transform = crate::schema::accepts(Accepts::Fraction))]
     pub resistor_tolerance: Option<f64>,
-    /// Power rating of fitted resistors, W.
+    /// Power rating of the fitted resistors, W.
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(WATTS)))]
     pub resistor_rating_w: Option<f64>,
-    /// Preferred-value series for sizing.
+    /// Preferred-value series for sized values [default: E24].
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub series: Option<Series>,
-    /// Wanted overdrive (npn stages).
+    /// Wanted worst-case overdrive over the minimum gain, npn stages only [default: 2].
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(OVERDRIVE)))]
     pub overdrive: Option<f64>,
 }
 

@@ -32,6 +32,13 @@ pub const DEFAULT_OVERDRIVE: f64 = 2.0;
 /// temperature model positive.
 pub const AMBIENT_RANGE_C: std::ops::RangeInclusive<f64> = -100.0..=250.0;
 
+/// Overdrives accepted: 1 (just pinned) to 1000 [practice: 2 to 5 is usual].
+pub const OVERDRIVE: Span = Span {
+    min: 1.0,
+    max: 1000.0,
+    unit: "",
+};
+
 /// The command-line flag that sets a stage key.
 pub fn flag_for(key: &str) -> &'static str {
     match key {
@@ -369,7 +376,7 @@ impl Resolver<'_> {
         let overdrive = if kind.stage_keys.contains(&"overdrive") {
             match self.pick_at("overdrive", |r| r.overdrive) {
                 Some((v, at)) => {
-                    if !(v.is_finite() && (1.0..=1000.0).contains(&v)) {
+                    if !(v.is_finite() && (OVERDRIVE.min..=OVERDRIVE.max).contains(&v)) {
                         return Err(Error::range(
                             at,
                             show_number(v),

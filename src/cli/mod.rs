@@ -1,6 +1,7 @@
 //! The command line: clap derive structs and value enums, no logic.
 
 mod load_flags;
+mod version;
 
 pub use load_flags::{unique_fields, LoadFlags};
 
@@ -30,7 +31,7 @@ pinlow checks the driver stage only: follow local codes and licensed practice.";
 
 /// The whole command line.
 #[derive(Debug, Parser)]
-#[command(name = "pinlow", version, about = ABOUT, after_help = AFTER_HELP)]
+#[command(name = "pinlow", version = version::text(), about = ABOUT, after_help = AFTER_HELP)]
 pub struct Cli {
     /// What to do.
     #[command(subcommand)]
@@ -208,6 +209,49 @@ Exit codes as for audit, from the fixed board.")]
         after_help = "Examples:\n  pinlow parts list\n  pinlow parts show 2N3904\n  pinlow parts check my-parts/*.json"
     )]
     Parts(PartsCommand),
+    /// Print the JSON Schema (draft 2020-12) of a board file or a part file, for editors.
+    #[command(
+        after_help = "Examples:\n  pinlow schema board > board.schema.json\n  pinlow schema part > part.schema.json"
+    )]
+    Schema {
+        /// Which file's schema.
+        #[arg(value_enum, value_name = "FILE")]
+        file: SchemaArg,
+    },
+    /// Print a completion script for a shell.
+    #[command(
+        after_help = "Examples:\n  pinlow completions bash > ~/.local/share/bash-completion/completions/pinlow\n  pinlow completions zsh > ~/.zfunc/_pinlow\n  pinlow completions fish > ~/.config/fish/completions/pinlow.fish\n  pinlow completions powershell >> $PROFILE"
+    )]
+    Completions {
+        /// The shell.
+        #[arg(value_enum, value_name = "SHELL")]
+        shell: ShellArg,
+    },
+    /// Print the manual page (roff), every command in one page.
+    #[command(after_help = "Example:\n  pinlow man > pinlow.1 && man ./pinlow.1")]
+    Man,
+}
+
+/// The files `pinlow schema` describes.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
+pub enum SchemaArg {
+    /// A board file (the input of `audit`).
+    Board,
+    /// A part file.
+    Part,
+}
+
+/// The shells `pinlow completions` writes for.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
+pub enum ShellArg {
+    /// Bash.
+    Bash,
+    /// Zsh.
+    Zsh,
+    /// Fish.
+    Fish,
+    /// PowerShell.
+    Powershell,
 }
 
 /// `pinlow parts ...`

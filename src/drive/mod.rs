@@ -77,6 +77,8 @@ pub struct DriveKind {
     pub part_keys: &'static [&'static str],
     /// Read and validate a part file of this kind (`value` is the whole file, `file` names it).
     pub parse_part: fn(&Value, &str, crate::parts::PartSource) -> crate::Result<Arc<dyn Switch>>,
+    /// The JSON Schema of its part files (its record's, `pinlow schema part`).
+    pub part_schema: fn(&mut schemars::SchemaGenerator) -> schemars::Schema,
 }
 
 impl fmt::Debug for DriveKind {

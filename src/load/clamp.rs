@@ -4,7 +4,7 @@
 use serde_json::{Map, Value};
 
 use crate::error::{Error, Result};
-use crate::fields::{Fields, KeySpec, Origin, Resolution};
+use crate::fields::{Accepts, Fields, KeySpec, Origin, Resolution};
 use crate::quantity::limits::{AMPS, VOLTS};
 use crate::quantity::{amps, format_engineering as fe, volts, Current, Energy, Time, Voltage};
 
@@ -92,18 +92,16 @@ impl Clamp {
                 ));
             }
         };
-        let specs = match kind {
-            "none" => Vec::new(),
-            "diode" => vec![FORWARD, REVERSE, CURRENT],
-            "zener" => vec![ZENER, FORWARD, REVERSE, CURRENT],
-            other => {
+        let specs = match CLAMP_KINDS.iter().find(|k| k.name == kind) {
+            Some(k) => k.keys.iter().map(|key| key.spec).collect(),
+            None => {
                 let place = match origin {
                     Origin::Flags => crate::error::Place::Flag("--clamp".into()),
                     Origin::File(f) => crate::error::Place::json(f.clone(), format!("{path}.kind")),
                 };
                 return Err(Error::invalid(
                     place,
-                    format!("unknown clamp kind `{other}`; the kinds are none, diode and zener"),
+                    format!("unknown clamp kind `{kind}`; the kinds are none, diode and zener"),
                 ));
             }
         };
@@ -136,6 +134,84 @@ impl Clamp {
         })
     }
 }
+
+/// A clamp kind as a board file writes it: `"kind": name` and the keys it takes.
+#[derive(Clone, Copy, Debug)]
+pub struct ClampKind {
+    /// `none`, `diode` or `zener`.
+    pub name: &'static str,
+    /// One line for people.
+    pub about: &'static str,
+    /// Its keys besides `kind`.
+    pub keys: &'static [ClampKey],
+}
+
+/// One key of a clamp object.
+#[derive(Clone, Copy, Debug)]
+pub struct ClampKey {
+    /// The key, its flag, form and meaning.
+    pub spec: KeySpec,
+    /// The numbers it accepts.
+    pub accepts: Accepts,
+    /// True when the kind cannot do without it.
+    pub required: bool,
+}
+
+/// Every clamp kind, with the keys [`Clamp::resolve`] reads.
+pub static CLAMP_KINDS: &[ClampKind] = &[
+    ClampKind {
+        name: "none",
+        about: "no clamp",
+        keys: &[],
+    },
+    ClampKind {
+        name: "diode",
+        about: "a diode across the coil",
+        keys: &[
+            ClampKey {
+                spec: FORWARD,
+                accepts: Accepts::Span(VOLTS),
+                required: false,
+            },
+            ClampKey {
+                spec: REVERSE,
+                accepts: Accepts::Span(VOLTS),
+                required: false,
+            },
+            ClampKey {
+                spec: CURRENT,
+                accepts: Accepts::Span(AMPS),
+                required: false,
+            },
+        ],
+    },
+    ClampKind {
+        name: "zener",
+        about: "a diode in series with a Zener across the coil (faster release, higher peak)",
+        keys: &[
+            ClampKey {
+                spec: ZENER,
+                accepts: Accepts::Span(VOLTS),
+                required: true,
+            },
+            ClampKey {
+                spec: FORWARD,
+                accepts: Accepts::Span(VOLTS),
+                required: false,
+            },
+            ClampKey {
+                spec: REVERSE,
+                accepts: Accepts::Span(VOLTS),
+                required: false,
+            },
+            ClampKey {
+                spec: CURRENT,
+                accepts: Accepts::Span(AMPS),
+                required: false,
+            },
+        ],
+    },
+];
 
 const FORWARD: KeySpec = KeySpec {
     key: "forward_v",

@@ -4,7 +4,7 @@ use std::sync::Arc;
 
 use super::{CurrentLaw, Field, Load, LoadKind, SharedLoad};
 use crate::conditions::Conditions;
-use crate::fields::{Fields, Resolution};
+use crate::fields::{Accepts, Fields, Resolution};
 use crate::quantity::limits::AMPS;
 use crate::quantity::{amps, Base, Current, Resistance, ValueKind};
 
@@ -19,6 +19,7 @@ pub static KIND: LoadKind = LoadKind {
         value_name: "AMPS",
         help: "the most current the load draws (current load) or the LED target current (led load), e.g. 150mA",
         form: "a number of amperes, e.g. 0.15",
+        accepts: Accepts::Span(AMPS),
         required: true,
     }],
     resolve,

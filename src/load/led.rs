@@ -6,7 +6,7 @@ use std::sync::Arc;
 use super::{CurrentLaw, Field, Load, LoadContext, LoadKind, OnVoltage, OwnResistor, SharedLoad};
 use crate::check::{why, CheckId, Explain, Figure, Finding, Status};
 use crate::conditions::Conditions;
-use crate::fields::{Fields, Resolution};
+use crate::fields::{Accepts, Fields, Resolution};
 use crate::quantity::limits::{AMPS, OHMS, VOLTS};
 use crate::quantity::{
     amps, format_engineering as fe, format_rkm, ohms, volts, watts, Base, Current, Power,
@@ -28,6 +28,9 @@ pub const SIZING_DECADES: i32 = 3;
 /// The LED current stays in its window (stage-model 5).
 pub const LED_CURRENT: CheckId = CheckId::new("led-current", 78);
 
+/// Most LEDs in one series string a stage takes [practice: a generous bound].
+pub const MAX_LED_COUNT: u32 = 1000;
+
 /// The registration of the LED load.
 pub static KIND: LoadKind = LoadKind {
     name: "led",
@@ -40,6 +43,7 @@ pub static KIND: LoadKind = LoadKind {
             value_name: "N",
             help: "how many LEDs in series",
             form: "a whole number, e.g. 3",
+            accepts: Accepts::Whole(1, MAX_LED_COUNT),
             required: true,
         },
         Field {
@@ -49,6 +53,7 @@ pub static KIND: LoadKind = LoadKind {
             value_name: "VOLTS",
             help: "the nominal forward voltage of one LED",
             form: "a number of volts, e.g. 2.1",
+            accepts: Accepts::Span(VOLTS),
             required: true,
         },
         Field {
@@ -58,6 +63,7 @@ pub static KIND: LoadKind = LoadKind {
             value_name: "VOLTS",
             help: "the lowest forward voltage of one LED [default: nominal - 0.2 V]",
             form: "a number of volts, e.g. 1.9",
+            accepts: Accepts::Span(VOLTS),
             required: false,
         },
         Field {
@@ -67,6 +73,7 @@ pub static KIND: LoadKind = LoadKind {
             value_name: "VOLTS",
             help: "the highest forward voltage of one LED [default: nominal + 0.2 V]",
             form: "a number of volts, e.g. 2.4",
+            accepts: Accepts::Span(VOLTS),
             required: false,
         },
         Field {
@@ -76,6 +83,7 @@ pub static KIND: LoadKind = LoadKind {
             value_name: "AMPS",
             help: "the most current the load draws (current load) or the LED target current (led load), e.g. 150mA",
             form: "a number of amperes, e.g. 0.02",
+            accepts: Accepts::Span(AMPS),
             required: true,
         },
         Field {
@@ -85,6 +93,7 @@ pub static KIND: LoadKind = LoadKind {
             value_name: "AMPS",
             help: "the LEDs' absolute maximum current [default: 1.5 x the target]",
             form: "a number of amperes, e.g. 0.03",
+            accepts: Accepts::Span(AMPS),
             required: false,
         },
         Field {
@@ -94,6 +103,7 @@ pub static KIND: LoadKind = LoadKind {
             value_name: "OHMS",
             help: "the LED series resistor (sized when absent)",
             form: "a number of ohms, e.g. 150",
+            accepts: Accepts::Span(OHMS),
             required: false,
         },
     ],
@@ -123,7 +133,7 @@ pub struct Led {
 
 fn resolve(f: &Fields<'_>, res: &mut Resolution<'_>) -> crate::Result<SharedLoad> {
     let count = f
-        .whole("count", 1, 1000)?
+        .whole("count", 1, MAX_LED_COUNT)?
         .ok_or_else(|| f.missing("count"))?;
     let vf = f.need("forward_v", VOLTS)?;
     let lo = f.number("forward_min_v", VOLTS)?;

@@ -14,7 +14,7 @@ pub mod motor;
 pub mod relay;
 pub mod strip;
 
-pub use clamp::{Clamp, ClampProposal, CLAMP_REVERSE_MARGIN};
+pub use clamp::{Clamp, ClampKey, ClampKind, ClampProposal, CLAMP_KINDS, CLAMP_REVERSE_MARGIN};
 pub use led::Led;
 pub use relay::Relay;
 
@@ -23,7 +23,7 @@ use std::sync::Arc;
 
 use crate::check::{Figure, Finding};
 use crate::conditions::Conditions;
-use crate::fields::{Fields, KeySpec, Origin, Resolution};
+use crate::fields::{Accepts, Fields, KeySpec, Origin, Resolution};
 use crate::quantity::{
     Base, Current, Inductance, Power, Resistance, Temperature, ValueKind, Voltage,
 };
@@ -75,6 +75,8 @@ pub struct Field {
     pub help: &'static str,
     /// The form the key takes in a file, for type errors (`a number of ohms, e.g. 400`).
     pub form: &'static str,
+    /// The numbers it accepts.
+    pub accepts: Accepts,
     /// True when the kind cannot do without it.
     pub required: bool,
 }

@@ -10,7 +10,7 @@ use std::sync::Arc;
 
 use super::{copper_at, CurrentLaw, Field, Kick, Load, LoadKind, SharedLoad};
 use crate::conditions::Conditions;
-use crate::fields::{pct, Fields, Resolution};
+use crate::fields::{pct, Accepts, Fields, Resolution};
 use crate::quantity::limits::{HENRIES, OHMS};
 use crate::quantity::{amps, henries, ohms, Base, Current, Inductance, Resistance, ValueKind};
 
@@ -29,6 +29,7 @@ pub static KIND: LoadKind = LoadKind {
             value_name: "OHMS",
             help: "the winding resistance at 20 °C (measured across the terminals, rotor still), e.g. 6R",
             form: "a number of ohms, e.g. 6",
+            accepts: Accepts::Span(OHMS),
             required: true,
         },
         Field {
@@ -38,6 +39,7 @@ pub static KIND: LoadKind = LoadKind {
             value_name: "FRACTION",
             help: "the winding resistance tolerance [default: 10 %]",
             form: "a fraction, e.g. 0.1 for ±10 %",
+            accepts: Accepts::Fraction,
             required: false,
         },
         Field {
@@ -47,6 +49,7 @@ pub static KIND: LoadKind = LoadKind {
             value_name: "HENRIES",
             help: "the winding's inductance, e.g. 200mH (gives the stored energy and decay)",
             form: "a number of henries, e.g. 0.002",
+            accepts: Accepts::Span(HENRIES),
             required: false,
         },
     ],

@@ -7,8 +7,8 @@ use std::sync::Arc;
 use super::{copper_at, CurrentLaw, Field, Kick, Load, LoadContext, LoadKind, SharedLoad};
 use crate::check::{why, CheckId, Explain, Finding, Status};
 use crate::conditions::Conditions;
-use crate::fields::{pct, Fields, Resolution};
-use crate::quantity::limits::{show_number, HENRIES, OHMS, VOLTS};
+use crate::fields::{pct, Accepts, Fields, Resolution};
+use crate::quantity::limits::{show_number, Span, GAIN, HENRIES, OHMS, VOLTS};
 use crate::quantity::{
     format_engineering as fe, henries, ohms, volts, Base, Current, Inductance, Resistance,
     Temperature, ValueKind, Voltage,
@@ -19,6 +19,12 @@ use crate::remedy::{Bound, PartNeed, Proposal};
 pub const DEFAULT_COIL_TOLERANCE: f64 = 0.10;
 /// Must-operate fraction of the rated coil voltage when none is given [practice].
 pub const DEFAULT_MUST_OPERATE_FRACTION: f64 = 0.75;
+/// Must-operate fractions accepted: above 0 (the smallest gain figure) and at most 1.
+pub const MUST_OPERATE: Span = Span {
+    min: GAIN.min,
+    max: 1.0,
+    unit: "",
+};
 /// A coil bears about this many times its rated voltage continuously: pass at or below
 /// [practice: coils are made to bear about 110 % of their rating continuously; memory].
 pub const COIL_OVERVOLTAGE_PASS: f64 = 1.1;
@@ -42,6 +48,7 @@ pub static KIND: LoadKind = LoadKind {
             value_name: "OHMS",
             help: "the coil resistance at 20 °C, e.g. 400 or 400R",
             form: "a number of ohms, e.g. 400",
+            accepts: Accepts::Span(OHMS),
             required: true,
         },
         Field {
@@ -51,6 +58,7 @@ pub static KIND: LoadKind = LoadKind {
             value_name: "FRACTION",
             help: "the coil resistance tolerance [default: 10 %]",
             form: "a fraction, e.g. 0.1 for ±10 %",
+            accepts: Accepts::Fraction,
             required: false,
         },
         Field {
@@ -60,6 +68,7 @@ pub static KIND: LoadKind = LoadKind {
             value_name: "VOLTS",
             help: "the rated coil voltage [default: the nominal supply]",
             form: "a number of volts, e.g. 12",
+            accepts: Accepts::Span(VOLTS),
             required: false,
         },
         Field {
@@ -69,6 +78,7 @@ pub static KIND: LoadKind = LoadKind {
             value_name: "FRACTION",
             help: "the must-operate voltage as a fraction of the rated voltage [default: 0.75]",
             form: "a fraction of the rated voltage, e.g. 0.75",
+            accepts: Accepts::Span(MUST_OPERATE),
             required: false,
         },
         Field {
@@ -78,6 +88,7 @@ pub static KIND: LoadKind = LoadKind {
             value_name: "HENRIES",
             help: "the winding's inductance, e.g. 200mH (gives the stored energy and decay)",
             form: "a number of henries, e.g. 0.2",
+            accepts: Accepts::Span(HENRIES),
             required: false,
         },
     ],
@@ -122,8 +133,8 @@ fn resolve(f: &Fields<'_>, res: &mut Resolution<'_>) -> crate::Result<SharedLoad
             v
         }
     };
-    let must = match f.number("must_operate_fraction", crate::quantity::limits::GAIN)? {
-        Some(v) if v <= 1.0 => v,
+    let must = match f.number("must_operate_fraction", GAIN)? {
+        Some(v) if v <= MUST_OPERATE.max => v,
         Some(v) => {
             return Err(crate::Error::range(
                 f.place("must_operate_fraction"),

@@ -7,7 +7,7 @@ use std::sync::Arc;
 use super::{CurrentLaw, Field, Load, LoadContext, LoadKind, SharedLoad};
 use crate::check::{why, CheckId, Explain, Finding, Status};
 use crate::conditions::Conditions;
-use crate::fields::{Fields, Resolution};
+use crate::fields::{Accepts, Fields, Resolution};
 use crate::quantity::limits::{AMPS, METRES, VOLTS};
 use crate::quantity::{
     amps, format_engineering as fe, volts, Base, Current, Resistance, ValueKind, Voltage,
@@ -42,6 +42,7 @@ pub static KIND: LoadKind = LoadKind {
             value_name: "VOLTS",
             help: "the strip's rated voltage, e.g. 12V",
             form: "a number of volts, e.g. 12",
+            accepts: Accepts::Span(VOLTS),
             required: true,
         },
         Field {
@@ -51,6 +52,7 @@ pub static KIND: LoadKind = LoadKind {
             value_name: "AMPS",
             help: "the strip's current per metre at its rated voltage, e.g. 0.5A",
             form: "a number of amperes, e.g. 0.5",
+            accepts: Accepts::Span(AMPS),
             required: true,
         },
         Field {
@@ -60,6 +62,7 @@ pub static KIND: LoadKind = LoadKind {
             value_name: "METRES",
             help: "the segment's length, e.g. 1.5m",
             form: "a number of metres, e.g. 1.5",
+            accepts: Accepts::Span(METRES),
             required: true,
         },
     ],

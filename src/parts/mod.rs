@@ -34,6 +34,10 @@ pub struct PartInfo {
     pub source: PartSource,
 }
 
+/// A part's junction limit must lie above the first and below the second, °C [practice: no
+/// silicon part is rated at or below room temperature, nor anywhere near 400 °C].
+pub const TJ_MAX_RANGE_C: (f64, f64) = (25.0, 400.0);
+
 /// Checks shared by the part readers of every drive kind: each error names the file and the
 /// JSON path of the figure.
 #[derive(Clone, Copy, Debug)]
@@ -79,9 +83,10 @@ impl PartCheck<'_> {
         }
     }
 
-    /// A junction limit above 25 C and below 400 C.
+    /// A junction limit above 25 C and below 400 C ([`TJ_MAX_RANGE_C`]).
     pub fn tj_max(&self, v: f64) -> Result<f64> {
-        if v.is_finite() && v > 25.0 && v < 400.0 {
+        let (lo, hi) = TJ_MAX_RANGE_C;
+        if v.is_finite() && v > lo && v < hi {
             Ok(v)
         } else {
             Err(Error::range(

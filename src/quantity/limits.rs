@@ -113,13 +113,14 @@ impl Span {
             return Some("a positive finite number is needed".to_string());
         }
         if v < self.min || v > self.max {
-            return Some(format!(
-                "pinlow accepts {} to {}",
-                self.show(self.min),
-                self.show(self.max)
-            ));
+            return Some(format!("pinlow accepts {}", self.range_text()));
         }
         None
+    }
+
+    /// The accepted range in words (`1 mΩ to 1000 GΩ`).
+    pub fn range_text(&self) -> String {
+        format!("{} to {}", self.show(self.min), self.show(self.max))
     }
 
     /// `v` when it is finite, positive and inside the span; otherwise why not, in words.
@@ -132,10 +133,9 @@ impl Span {
         }
         if v < self.min || v > self.max {
             return Err(format!(
-                "{} is not allowed: pinlow accepts {} to {}",
+                "{} is not allowed: pinlow accepts {}",
                 show_number(v),
-                self.show(self.min),
-                self.show(self.max)
+                self.range_text()
             ));
         }
         Ok(v)

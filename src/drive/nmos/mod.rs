@@ -50,6 +50,7 @@ pub static KIND: DriveKind = DriveKind {
     margin: ("gate_voltage_min_v", "VGS min [V]"),
     part_keys: part::KEYS,
     parse_part,
+    part_schema: schemars::SchemaGenerator::subschema_for::<part::NmosRecord>,
 };
 
 fn parse_part(value: &Value, file: &str, source: PartSource) -> crate::Result<Arc<dyn Switch>> {

@@ -1,11 +1,13 @@
 //! A logic-level N-channel MOSFET part file (files.md v2): its record, validation, and the
 //! typed part (stage-model 8).
 
+use schemars::JsonSchema;
 use serde::{Deserialize, Serialize};
 use serde_json::Value;
 
 use crate::error::{from_value, Error, Result};
-use crate::parts::{PartCheck, PartInfo, PartSource};
+use crate::fields::Accepts;
+use crate::parts::{PartCheck, PartInfo, PartSource, TJ_MAX_RANGE_C};
 use crate::quantity::limits::{show_number, AMPS, KELVIN_PER_WATT, LEAKAGE_AMPS, OHMS, VOLTS};
 use crate::quantity::{
     amps, celsius, kelvin_per_watt, ohms, volts, Base, Current, Resistance, Voltage,
@@ -18,6 +20,11 @@ pub const DEFAULT_RDS_ON_TEMPCO_PER_K: f64 = 0.006;
 pub const DEFAULT_VGS_TH_TEMPCO_V_PER_K: f64 = -0.005;
 /// Gate leakage IGSS at 25 C when a part gives none, A [memory].
 pub const DEFAULT_IGSS_A: f64 = 100e-9;
+
+/// RDS(on) temperature coefficients accepted, per K [practice: 0.006 is typical].
+pub const RDS_ON_TEMPCO_RANGE: (f64, f64) = (0.0, 0.02);
+/// VGS(th) temperature coefficients accepted, V/K [practice: -0.005 is typical].
+pub const VGS_TH_TEMPCO_RANGE: (f64, f64) = (-0.02, 0.0);
 
 /// The keys of an nmos part file.
 pub const KEYS: &[&str] = &[
@@ -38,66 +45,89 @@ pub const KEYS: &[&str] = &[
     "r_th_ja_k_per_w",
 ];
 
-/// One nmos part file as written on disk.
-#[derive(Clone, Debug, Deserialize, Serialize)]
+/// One nmos part file as written on disk. Its JSON Schema (`pinlow schema part`) is derived
+/// from it: the doc comments below are the descriptions an editor shows.
+#[derive(Clone, Debug, Deserialize, Serialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
+#[schemars(
+    title = "nmos part",
+    description = "A logic-level N-channel MOSFET (`\"polarity\": \"nmos\"`)."
+)]
 pub struct NmosRecord {
-    /// Unique id.
+    /// Unique id used by boards and flags (matched without regard to case).
+    #[schemars(length(min = 1))]
     pub id: String,
     /// One line for people.
     #[serde(default)]
     pub description: String,
-    /// `nmos`.
+    /// The drive kind: a logic-level N-channel MOSFET.
+    #[schemars(extend("const" = super::KIND.name))]
     pub polarity: String,
-    /// Package.
+    /// Package name (`SOT-23`).
+    #[schemars(length(min = 1))]
     pub package: String,
-    /// Where the figures come from.
+    /// Where the figures come from (a datasheet and its revision, a measurement, invented demo data).
+    #[schemars(length(min = 1))]
     pub provenance: String,
-    /// Drain-source voltage rating.
+    /// Drain-source voltage rating, V.
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(VOLTS)))]
     pub vds_max_v: f64,
-    /// Continuous drain current rating.
+    /// Continuous drain current rating, A.
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(AMPS)))]
     pub id_max_a: f64,
-    /// Gate-source voltage rating.
+    /// Gate-source voltage rating, V, above the threshold's maximum.
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(VOLTS)))]
     pub vgs_max_v: f64,
-    /// Gate threshold limits at 25 C.
+    /// Gate threshold limits at 25 °C.
     pub vgs_th: ThresholdRecord,
-    /// RDS(on) maximum at gate voltages, at 25 C, sorted by gate voltage.
+    /// RDS(on) maximum at gate voltages, at 25 °C, sorted by gate voltage.
+    #[schemars(length(min = 1))]
     pub rds_on_max: Vec<RdsOnRecord>,
-    /// RDS(on) temperature coefficient, per K.
+    /// RDS(on) temperature coefficient, per K [default: 0.006].
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[schemars(transform = crate::schema::between(RDS_ON_TEMPCO_RANGE.0, RDS_ON_TEMPCO_RANGE.1))]
     pub rds_on_tempco_per_k: Option<f64>,
-    /// VGS(th) temperature coefficient, V/K.
+    /// VGS(th) temperature coefficient, V/K [default: -0.005].
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[schemars(transform = crate::schema::between(VGS_TH_TEMPCO_RANGE.0, VGS_TH_TEMPCO_RANGE.1))]
     pub vgs_th_tempco_v_per_k: Option<f64>,
-    /// Gate leakage at 25 C.
+    /// Gate leakage (IGSS) at 25 °C, A [default: 100 nA].
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(LEAKAGE_AMPS)))]
     pub igss_max_a: Option<f64>,
-    /// Maximum junction temperature.
+    /// Maximum junction temperature, °C.
+    #[schemars(transform = crate::schema::strictly_between(TJ_MAX_RANGE_C.0, TJ_MAX_RANGE_C.1))]
     pub tj_max_c: f64,
-    /// Junction-to-ambient thermal resistance (JEDEC JESD51).
+    /// Junction-to-ambient thermal resistance (JEDEC JESD51), K/W.
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(KELVIN_PER_WATT)))]
     pub r_th_ja_k_per_w: f64,
 }
 
 /// The gate threshold limits.
-#[derive(Clone, Debug, Deserialize, Serialize)]
+#[derive(Clone, Debug, Deserialize, Serialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct ThresholdRecord {
-    /// Minimum VGS(th).
+    /// Minimum VGS(th), V, at most the maximum.
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(VOLTS)))]
     pub min_v: f64,
-    /// Maximum VGS(th).
+    /// Maximum VGS(th), V, below the gate rating.
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(VOLTS)))]
     pub max_v: f64,
 }
 
 /// An RDS(on) point.
-#[derive(Clone, Debug, Deserialize, Serialize)]
+#[derive(Clone, Debug, Deserialize, Serialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RdsOnRecord {
-    /// Gate-source voltage of the point.
+    /// Gate-source voltage of the point, V, above the threshold's minimum and at most the gate rating.
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(VOLTS)))]
     pub vgs_v: f64,
-    /// Maximum RDS(on) there.
+    /// Maximum RDS(on) there, ohms, not above that of a lower gate voltage.
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(OHMS)))]
     pub ohms: f64,
-    /// The datasheet's test current, when stated.
+    /// The datasheet's test current, A, when stated.
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(AMPS)))]
     pub id_a: Option<f64>,
 }
 
@@ -236,7 +266,12 @@ impl NmosPart {
             });
         }
         let a = match rec.rds_on_tempco_per_k {
-            Some(v) if v.is_finite() && (0.0..=0.02).contains(&v) => v,
+            Some(v)
+                if v.is_finite()
+                    && (RDS_ON_TEMPCO_RANGE.0..=RDS_ON_TEMPCO_RANGE.1).contains(&v) =>
+            {
+                v
+            }
             Some(v) => {
                 return Err(Error::range(
                     c.at("rds_on_tempco_per_k"),
@@ -247,7 +282,12 @@ impl NmosPart {
             None => DEFAULT_RDS_ON_TEMPCO_PER_K,
         };
         let cth = match rec.vgs_th_tempco_v_per_k {
-            Some(v) if v.is_finite() && (-0.02..=0.0).contains(&v) => v,
+            Some(v)
+                if v.is_finite()
+                    && (VGS_TH_TEMPCO_RANGE.0..=VGS_TH_TEMPCO_RANGE.1).contains(&v) =>
+            {
+                v
+            }
             Some(v) => {
                 return Err(Error::range(
                     c.at("vgs_th_tempco_v_per_k"),

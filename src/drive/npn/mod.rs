@@ -51,6 +51,7 @@ pub static KIND: DriveKind = DriveKind {
     margin: ("overdrive_min", "Overdrive"),
     part_keys: part::KEYS,
     parse_part,
+    part_schema: schemars::SchemaGenerator::subschema_for::<part::NpnRecord>,
 };
 
 fn parse_part(value: &Value, file: &str, source: PartSource) -> crate::Result<Arc<dyn Switch>> {

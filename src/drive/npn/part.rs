@@ -2,12 +2,14 @@
 //! look-ups the engine needs at 25 C (stage-model 3 and 5). Darlington pairs (6b) are NPN parts
 //! with `"structure": "darlington"`.
 
+use schemars::JsonSchema;
 use serde::{Deserialize, Serialize};
 use serde_json::Value;
 
 use crate::error::{from_value, Error, Result};
+use crate::fields::Accepts;
 use crate::parts::points::{gain, held, resistive};
-use crate::parts::{PartCheck, PartInfo, PartSource};
+use crate::parts::{PartCheck, PartInfo, PartSource, TJ_MAX_RANGE_C};
 use crate::quantity::limits::{
     show_number, AMPS, GAIN, KELVIN_PER_WATT, LEAKAGE_AMPS, OHMS, SECONDS, VOLTS,
 };
@@ -28,6 +30,10 @@ pub const DEFAULT_ICBO_A: f64 = 50e-9;
 pub const VCE_SAT_SANE_MAX_V: f64 = 6.0;
 /// No silicon base-emitter path (even of a Darlington pair) needs more than this, V [practice].
 pub const VBE_SAT_SANE_MAX_V: f64 = 5.0;
+
+/// The largest gain temperature exponent XTB accepted [practice: 1.5 for one transistor, 3 for a
+/// Darlington pair].
+pub const MAX_GAIN_TEMP_EXPONENT: f64 = 5.0;
 
 /// The keys of an NPN part file.
 pub const KEYS: &[&str] = &[
@@ -51,57 +57,78 @@ pub const KEYS: &[&str] = &[
     "r_th_ja_k_per_w",
 ];
 
-/// One NPN part file as written on disk.
-#[derive(Clone, Debug, Deserialize, Serialize)]
+/// One NPN part file as written on disk. Its JSON Schema (`pinlow schema part`) is derived
+/// from it: the doc comments below are the descriptions an editor shows.
+#[derive(Clone, Debug, Deserialize, Serialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
+#[schemars(
+    title = "npn part",
+    description = "An NPN transistor or Darlington pair (`\"polarity\": \"npn\"`)."
+)]
 pub struct NpnRecord {
-    /// Unique id used by boards and flags.
+    /// Unique id used by boards and flags (matched without regard to case).
+    #[schemars(length(min = 1))]
     pub id: String,
     /// One line for people.
     #[serde(default)]
     pub description: String,
-    /// `npn`.
+    /// The drive kind: an NPN transistor or Darlington pair.
+    #[schemars(extend("const" = super::KIND.name))]
     pub polarity: String,
     /// Package name (`TO-92`).
+    #[schemars(length(min = 1))]
     pub package: String,
-    /// Where the numbers come from.
+    /// Where the numbers come from (a datasheet and its revision, a measurement, invented demo data).
+    #[schemars(length(min = 1))]
     pub provenance: String,
     /// `single` (default) or `darlington`.
     #[serde(default)]
     pub structure: Option<Structure>,
-    /// Collector-emitter breakdown with the base open.
+    /// Collector-emitter breakdown with the base open (VCEO), V.
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(VOLTS)))]
     pub vceo_max_v: f64,
-    /// Rated continuous collector current.
+    /// Rated continuous collector current, A.
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(AMPS)))]
     pub ic_max_a: f64,
     /// Minimum DC gain at several collector currents, sorted by current.
+    #[schemars(length(min = 1))]
     pub gain_min: Vec<GainRecord>,
-    /// Maximum DC gain at several collector currents (optional; the yield draws use it).
+    /// Maximum DC gain at several collector currents (optional; the yield draws use it), never below the minimum.
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[schemars(length(min = 1))]
     pub gain_max: Option<Vec<GainRecord>>,
-    /// Gummel-Poon XTB: gain grows as (T/298.15 K)^XTB.
+    /// Gummel-Poon XTB: gain grows as (T/298.15 K)^XTB [default: 1.5, a Darlington pair 3].
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[schemars(transform = crate::schema::between(0.0, MAX_GAIN_TEMP_EXPONENT))]
     pub gain_temp_exponent: Option<f64>,
     /// Maximum VCE(sat) at (IC, IB) points, sorted by current.
+    #[schemars(length(min = 1))]
     pub vce_sat_max: Vec<VceSatRecord>,
     /// VBE(sat) minimum and maximum at (IC, IB) points, sorted by current.
+    #[schemars(length(min = 1))]
     pub vbe_sat: Vec<VbeSatRecord>,
-    /// Collector cut-off current at 25 C.
+    /// Collector cut-off current (ICBO) at 25 °C, A [default: 50 nA].
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(LEAKAGE_AMPS)))]
     pub icbo_max_a: Option<f64>,
-    /// Storage time (not used by the model yet).
+    /// Storage time, s (not used by the model yet).
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(SECONDS)))]
     pub storage_time_s: Option<f64>,
-    /// The resistor inside a Darlington pair from base to emitter, ohms (nominal).
+    /// The resistor inside a Darlington pair from base to emitter, ohms (nominal); with `"structure": "darlington"` only.
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(OHMS)))]
     pub internal_base_emitter_ohms: Option<f64>,
-    /// Maximum junction temperature.
+    /// Maximum junction temperature, °C.
+    #[schemars(transform = crate::schema::strictly_between(TJ_MAX_RANGE_C.0, TJ_MAX_RANGE_C.1))]
     pub tj_max_c: f64,
-    /// Junction-to-ambient thermal resistance (JEDEC JESD51).
+    /// Junction-to-ambient thermal resistance (JEDEC JESD51), K/W.
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(KELVIN_PER_WATT)))]
     pub r_th_ja_k_per_w: f64,
 }
 
 /// Single transistor or Darlington pair.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Deserialize, Serialize, Default)]
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Deserialize, Serialize, Default, JsonSchema)]
 #[serde(rename_all = "lowercase")]
 pub enum Structure {
     /// One transistor.
@@ -112,38 +139,47 @@ pub enum Structure {
 }
 
 /// A gain point.
-#[derive(Clone, Debug, Deserialize, Serialize)]
+#[derive(Clone, Debug, Deserialize, Serialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct GainRecord {
-    /// Collector current of the point.
+    /// Collector current of the point, A.
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(AMPS)))]
     pub ic_a: f64,
-    /// Gain at that current.
+    /// DC gain (hFE) at that current.
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(GAIN)))]
     pub hfe: f64,
 }
 
 /// A VCE(sat) point.
-#[derive(Clone, Debug, Deserialize, Serialize)]
+#[derive(Clone, Debug, Deserialize, Serialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct VceSatRecord {
-    /// Collector current.
+    /// Collector current, A.
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(AMPS)))]
     pub ic_a: f64,
-    /// Base current of the test condition.
+    /// Base current of the test condition, A, below the collector current.
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(AMPS)))]
     pub ib_a: f64,
-    /// Maximum VCE(sat).
+    /// Maximum VCE(sat), V, at most the part's VCEO.
+    #[schemars(transform = crate::schema::between(VOLTS.min, VCE_SAT_SANE_MAX_V))]
     pub v: f64,
 }
 
 /// A VBE(sat) point.
-#[derive(Clone, Debug, Deserialize, Serialize)]
+#[derive(Clone, Debug, Deserialize, Serialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct VbeSatRecord {
-    /// Collector current.
+    /// Collector current, A.
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(AMPS)))]
     pub ic_a: f64,
-    /// Base current of the test condition.
+    /// Base current of the test condition, A, below the collector current.
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(AMPS)))]
     pub ib_a: f64,
-    /// Minimum VBE(sat).
+    /// Minimum VBE(sat), V, at most the maximum.
+    #[schemars(transform = crate::schema::accepts(Accepts::Span(VOLTS)))]
     pub min_v: f64,
-    /// Maximum VBE(sat).
+    /// Maximum VBE(sat), V, at most the part's VCEO.
+    #[schemars(transform = crate::schema::between(VOLTS.min, VBE_SAT_SANE_MAX_V))]
     pub max_v: f64,
 }
 
@@ -273,7 +309,7 @@ impl NpnPart {
             Structure::Darlington => DEFAULT_DARLINGTON_GAIN_TEMP_EXPONENT,
         };
         let xtb = match rec.gain_temp_exponent {
-            Some(x) if x.is_finite() && (0.0..=5.0).contains(&x) => x,
+            Some(x) if x.is_finite() && (0.0..=MAX_GAIN_TEMP_EXPONENT).contains(&x) => x,
             Some(x) => {
                 return Err(Error::range(
                     c.at("gain_temp_exponent"),
