@@ -1,61 +1,22 @@
-//! Throughput of the audit engine on generated boards of 1,000 and 100,000 stages, one core.
-//! Prints stages per second for given-RB stages and for sized stages, and the peak resident
-//! memory. Run: `cargo bench --bench audit`.
+//! Throughput of the audit engine in the library on generated boards of 1,000 and 100,000 stages
+//! (every drive and load kind, `common::board_json`), one core. Prints stages per second for
+//! parsing, the engine alone and the full stage report with its composed remedy serialised to
+//! JSON, for given-RB stages and for sized stages, and the peak resident memory. Run:
+//! `cargo bench --bench audit`.
+
+mod common;
 
 use std::time::Instant;
+
+use common::{board_json, load_average, peak_rss_kib};
 
 use pinlow::analysis::analyse;
 use pinlow::board::parse_board;
 use pinlow::parts::Library;
 use pinlow::pipeline::{stage_report, Options};
 
-/// A board of `n` stages cycling through the load kinds; `sized` leaves RB out.
-fn board_json(n: usize, sized: bool) -> String {
-    let mut stages = Vec::with_capacity(n);
-    for i in 0..n {
-        let rb = if sized {
-            String::new()
-        } else {
-            format!(r#", "base_resistor_ohms": {}"#, 1000 + (i % 50) * 20)
-        };
-        let load = match i % 4 {
-            0 => format!(
-                r#"{{"kind": "relay", "coil_ohms": {}}}, "clamp": {{"kind": "diode"}}"#,
-                300 + i % 200
-            ),
-            1 => format!(
-                r#"{{"kind": "led", "count": 2, "forward_v": 2.0, "current_a": {}}}"#,
-                0.01 + (i % 10) as f64 * 0.001
-            ),
-            2 => r#"{"kind": "strip", "rated_v": 12, "current_per_m_a": 0.1, "length_m": 0.5}"#
-                .to_string(),
-            _ => format!(
-                r#"{{"kind": "current", "current_a": {}}}"#,
-                0.02 + (i % 30) as f64 * 0.001
-            ),
-        };
-        stages.push(format!(
-            r#"{{"name": "S{i}", "part": "demo-npn-40v", "load": {load}{rb}}}"#
-        ));
-    }
-    format!(
-        r#"{{"defaults": {{"supply_v": 12, "logic_high_v": 3.3, "ambient_c": [-20, 60]}}, "stages": [{}]}}"#,
-        stages.join(",")
-    )
-}
-
-fn peak_rss_kib() -> u64 {
-    std::fs::read_to_string("/proc/self/status")
-        .ok()
-        .and_then(|s| {
-            s.lines()
-                .find(|l| l.starts_with("VmHWM:"))
-                .and_then(|l| l.split_whitespace().nth(1).and_then(|v| v.parse().ok()))
-        })
-        .unwrap_or(0)
-}
-
 fn main() {
+    println!("load average {}", load_average());
     let lib = Library::builtin().expect("shipped parts");
     for &sized in &[false, true] {
         for &n in &[1_000usize, 100_000] {

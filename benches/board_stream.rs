@@ -1,54 +1,25 @@
-//! The whole `audit` command on a generated board of 100,000 stages, in JSON, table and
-//! Markdown: wall time and peak resident memory, each format in a fresh process (the bench
-//! runs itself with `--child`), the report going to a sink. Run:
-//! `cargo bench --bench board_stream` (`-- 20000` for another stage count).
+//! The whole `audit` command on a generated board (20,000 stages unless given: `cargo bench
+//! --bench board_stream -- 100000`), in JSON, table and Markdown, each format in a fresh
+//! process, two ways:
+//!
+//! - library: this bench runs itself with `--child`, which calls `pinlow::app::run` (what the
+//!   binary's `main` calls) with the report going to a sink; it prints the time inside the
+//!   process and the peak resident memory;
+//! - binary: the release `pinlow audit BOARD --format F` with standard output to /dev/null, wall
+//!   time of the whole process and its peak resident memory (from /usr/bin/time when present).
+//!
+//! Each is run three times and the best is kept; stages per second and each format's time over
+//! the JSON time are printed, with the load average before and after.
+
+mod common;
 
 use std::time::Instant;
 
 use clap::Parser;
+use common::{best_and_median, board_json, load_average, peak_rss_kib, run_binary};
 
-/// A board of `n` stages cycling through the load kinds, each with its RB (the generator of
-/// `benches/audit.rs`).
-fn board_json(n: usize) -> String {
-    let mut stages = Vec::with_capacity(n);
-    for i in 0..n {
-        let rb = format!(r#", "base_resistor_ohms": {}"#, 1000 + (i % 50) * 20);
-        let load = match i % 4 {
-            0 => format!(
-                r#"{{"kind": "relay", "coil_ohms": {}}}, "clamp": {{"kind": "diode"}}"#,
-                300 + i % 200
-            ),
-            1 => format!(
-                r#"{{"kind": "led", "count": 2, "forward_v": 2.0, "current_a": {}}}"#,
-                0.01 + (i % 10) as f64 * 0.001
-            ),
-            2 => r#"{"kind": "strip", "rated_v": 12, "current_per_m_a": 0.1, "length_m": 0.5}"#
-                .to_string(),
-            _ => format!(
-                r#"{{"kind": "current", "current_a": {}}}"#,
-                0.02 + (i % 30) as f64 * 0.001
-            ),
-        };
-        stages.push(format!(
-            r#"{{"name": "S{i}", "part": "demo-npn-40v", "load": {load}{rb}}}"#
-        ));
-    }
-    format!(
-        "{{\"defaults\": {{\"supply_v\": 12, \"logic_high_v\": 3.3, \"ambient_c\": [-20, 60]}}, \"stages\": [\n{}\n]}}\n",
-        stages.join(",\n")
-    )
-}
-
-fn peak_rss_kib() -> u64 {
-    std::fs::read_to_string("/proc/self/status")
-        .ok()
-        .and_then(|s| {
-            s.lines()
-                .find(|l| l.starts_with("VmHWM:"))
-                .and_then(|l| l.split_whitespace().nth(1).and_then(|v| v.parse().ok()))
-        })
-        .unwrap_or(0)
-}
+const RUNS: usize = 3;
+const FORMATS: [&str; 3] = ["json", "table", "markdown"];
 
 fn child(file: &str, format: &str) {
     let cli = pinlow::cli::Cli::parse_from([
@@ -58,47 +29,93 @@ fn child(file: &str, format: &str) {
     let code = pinlow::app::run(&cli, None, false, true, &mut std::io::sink());
     let took = started.elapsed();
     match code {
-        Ok(code) => println!(
-            "{format:>8}: {:7.2} s, peak RSS {:7} KiB (exit {code})",
-            took.as_secs_f64(),
-            peak_rss_kib()
-        ),
-        Err(e) => println!("{format:>8}: error: {e}"),
+        Ok(_) => println!("{} {}", took.as_secs_f64(), peak_rss_kib()),
+        Err(e) => println!("error: {e}"),
     }
 }
 
-fn main() {
+/// (best seconds, peak KiB) of the library path in fresh processes.
+fn library(file: &str, format: &str) -> Result<(f64, u64), String> {
+    let me = std::env::current_exe().map_err(|e| e.to_string())?;
+    let mut times = Vec::new();
+    let mut rss = 0;
+    for _ in 0..RUNS {
+        let out = std::process::Command::new(&me)
+            .args(["--child", file, format])
+            .output()
+            .map_err(|e| e.to_string())?;
+        let text = String::from_utf8_lossy(&out.stdout).to_string();
+        let mut it = text.split_whitespace();
+        match (
+            it.next().and_then(|t| t.parse::<f64>().ok()),
+            it.next().and_then(|r| r.parse::<u64>().ok()),
+        ) {
+            (Some(t), Some(r)) => {
+                times.push(t);
+                rss = rss.max(r);
+            }
+            _ => return Err(format!("child: {text}")),
+        }
+    }
+    Ok((best_and_median(times).0, rss))
+}
+
+/// (best seconds, peak KiB) of the release binary.
+fn binary(file: &str, format: &str) -> Result<(f64, Option<u64>), String> {
+    let mut times = Vec::new();
+    let mut rss = None;
+    for _ in 0..RUNS {
+        let (t, r) = run_binary(&["audit", file, "--format", format], &[])?;
+        times.push(t);
+        rss = rss.max(r);
+    }
+    Ok((best_and_median(times).0, rss))
+}
+
+fn main() -> Result<(), String> {
     let args: Vec<String> = std::env::args().collect();
     if let Some(at) = args.iter().position(|a| a == "--child") {
         match (args.get(at + 1), args.get(at + 2)) {
             (Some(file), Some(format)) => child(file, format),
             _ => eprintln!("--child FILE FORMAT"),
         }
-        return;
+        return Ok(());
     }
     let n: usize = args
         .iter()
         .skip(1)
         .find_map(|a| a.parse().ok())
-        .unwrap_or(100_000);
+        .unwrap_or(20_000);
     let dir = std::env::temp_dir().join(format!("pinlow-bench-stream-{}", std::process::id()));
-    std::fs::create_dir_all(&dir).expect("temp dir");
+    std::fs::create_dir_all(&dir).map_err(|e| e.to_string())?;
     let path = dir.join("board.json");
-    let text = board_json(n);
-    std::fs::write(&path, &text).expect("write the board");
+    let text = board_json(n, false);
+    std::fs::write(&path, &text).map_err(|e| e.to_string())?;
+    let file = path.to_string_lossy().to_string();
     println!(
-        "audit of a generated board: {n} stages, {:.1} MB; each format in its own process",
-        text.len() as f64 / 1e6
+        "audit of a generated board: {n} stages, {:.1} MB; load average {}",
+        text.len() as f64 / 1e6,
+        load_average()
     );
     drop(text);
-    let me = std::env::current_exe().expect("the bench binary");
-    for format in ["json", "table", "markdown"] {
-        let out = std::process::Command::new(&me)
-            .args(["--child", &path.to_string_lossy(), format])
-            .output()
-            .expect("child runs");
-        print!("{}", String::from_utf8_lossy(&out.stdout));
-        eprint!("{}", String::from_utf8_lossy(&out.stderr));
+    let mut json = (f64::NAN, f64::NAN);
+    for format in FORMATS {
+        let (lt, lr) = library(&file, format)?;
+        let (bt, br) = binary(&file, format)?;
+        if format == "json" {
+            json = (lt, bt);
+        }
+        println!(
+            "{format:>8}: library {lt:6.3} s ({:7.0} stages/s, {:.2} x JSON), peak {:6.1} MiB | binary {bt:6.3} s ({:7.0} stages/s, {:.2} x JSON), peak {}",
+            n as f64 / lt,
+            lt / json.0,
+            lr as f64 / 1024.0,
+            n as f64 / bt,
+            bt / json.1,
+            br.map_or("n/a".to_string(), |k| format!("{:.1} MiB", k as f64 / 1024.0)),
+        );
     }
+    println!("load average after: {}", load_average());
     let _ = std::fs::remove_dir_all(&dir);
+    Ok(())
 }
