@@ -22,6 +22,7 @@ use crate::stage::Stage;
 
 mod flags;
 mod parts_view;
+mod pick;
 mod progress;
 
 /// Seed of the yield draws when `--seed` is not given.
@@ -136,6 +137,7 @@ pub fn run(
             };
             run.report(stages, out)
         }
+        Command::Pick(args) => pick::run(args, &env, terminal, out),
         Command::Plot {
             board,
             stage,
