@@ -229,17 +229,20 @@ impl Picked {
 pub fn pick(query: &Query, lib: &Library, filter: &Filter) -> Result<Picked> {
     let parts: Vec<&SharedSwitch> = lib.iter().filter(|p| filter.admits(p.as_ref())).collect();
     if parts.is_empty() {
+        let mut with: Vec<String> = Vec::new();
+        if let Some(k) = filter.drive {
+            with.push(format!("--drive {}", k.name));
+        }
+        if let Some(p) = &filter.package {
+            with.push(format!("--package {p:?}"));
+        }
+        let with = if with.is_empty() {
+            String::new()
+        } else {
+            format!(" with {}", with.join(" and "))
+        };
         return Err(Error::Usage(format!(
-            "no part of the library is left to try{}{} (`pinlow parts list` shows every part)",
-            filter
-                .drive
-                .map(|k| format!(" with --drive {}", k.name))
-                .unwrap_or_default(),
-            filter
-                .package
-                .as_ref()
-                .map(|p| format!(" with --package {p:?}"))
-                .unwrap_or_default(),
+            "no part of the library is left to try{with} (`pinlow parts list` shows every part)"
         )));
     }
     let defaults = query.candidate_defaults();

@@ -193,8 +193,12 @@ pub fn blocks(r: &PickReport) -> Vec<Block> {
     ));
     out.push(Block::Line(conditions_line(&s.conditions)));
     out.push(Block::Line(format!(
-        "{} parts tried ({}), each with its input resistors sized; {} kept, {} shown. Ranked by verdict, then checks not passing, then Tj max, then part id.",
-        r.tried,
+        "{} tried ({}), each with its input resistors sized; {} kept, {} shown. Ranked by verdict, then checks not passing, then Tj max, then part id.",
+        if r.tried == 1 {
+            "1 part".to_string()
+        } else {
+            format!("{} parts", r.tried)
+        },
         r.drives.join(", "),
         r.kept,
         r.candidates.len()
