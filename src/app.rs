@@ -23,6 +23,7 @@ use crate::stage::Stage;
 mod fix;
 mod flags;
 mod parts_view;
+mod pick;
 mod progress;
 mod schema;
 mod shell;
@@ -153,6 +154,7 @@ pub fn run(
             };
             run.report(stages, out)
         }
+        Command::Pick(args) => pick::run(args, &env, terminal, out),
         Command::Plot {
             board,
             stage,

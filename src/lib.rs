@@ -32,6 +32,7 @@ pub mod jsonpos;
 pub mod load;
 pub mod outputs;
 pub mod parts;
+pub mod pick;
 pub mod picture;
 pub mod pipeline;
 pub mod plot;

@@ -311,3 +311,101 @@ pub fn need_text(n: &PartNeed) -> String {
         crate::remedy::figure_label(n.figure)
     )
 }
+
+/// The report of a pick: the first `top` candidates (all when `None`) each as the full stage
+/// report of an audit (analysed once, in `pick`; its remedy composed here), and the needs.
+pub fn pick_report(
+    picked: &crate::pick::Picked,
+    board: Option<String>,
+    top: Option<usize>,
+) -> crate::report::pick::PickReport {
+    use crate::report::pick::{
+        cautions_of, KindNeedsReport, PartNeedsReport, PickReport, PickStage, RankedReport,
+    };
+    let stage = &picked.stage;
+    let c = &stage.conditions;
+    let index = stage.source.index + 1;
+    let shown = top.unwrap_or(usize::MAX);
+    let candidates: Vec<RankedReport> = picked
+        .candidates
+        .iter()
+        .take(shown)
+        .enumerate()
+        .map(|(i, cand)| {
+            let remedy = compose(&cand.stage, &cand.analysis);
+            RankedReport {
+                rank: i + 1,
+                report: build(index, &cand.stage, &cand.analysis, remedy.as_ref()),
+            }
+        })
+        .collect();
+    let raw = |get: fn(&crate::board::RawStage) -> Option<&Map<String, serde_json::Value>>| {
+        get(&stage.source.own)
+            .or_else(|| get(&stage.source.defaults))
+            .cloned()
+    };
+    PickReport {
+        model_version: crate::report::MODEL_VERSION,
+        board,
+        stage: PickStage {
+            name: stage.name.clone(),
+            index,
+            load_kind: stage.load_kind(),
+            conditions: ConditionsReport {
+                supply_v: num(c.supply.base()),
+                supply_tolerance: c.supply_tolerance,
+                logic_high_v: num(c.logic_high.base()),
+                logic_high_min_v: num(c.logic_high_min.base()),
+                pin_limit_a: num(c.pin_limit.base()),
+                ambient_c: [num(c.ambient_min.base()), num(c.ambient_max.base())],
+                overdrive: picked
+                    .kinds
+                    .iter()
+                    .any(|k| k.stage_keys.contains(&"overdrive"))
+                    .then_some(c.overdrive),
+                resistor_tolerance: c.resistor_tolerance,
+                series: c.series.to_string(),
+            },
+            load: raw(|r| r.load.as_ref()).unwrap_or_default(),
+            clamp: raw(|r| r.clamp.as_ref()),
+        },
+        drives: picked.kinds.iter().map(|k| k.name).collect(),
+        tried: picked.tried,
+        kept: picked.candidates.len(),
+        verdict: picked.verdict(),
+        cautions: cautions_of(&candidates),
+        candidates,
+        needs: picked
+            .needs
+            .iter()
+            .map(|k| KindNeedsReport {
+                drive: k.drive,
+                parts: k
+                    .parts
+                    .iter()
+                    .map(|p| PartNeedsReport {
+                        part: p.part.clone(),
+                        verdict: p.verdict,
+                        still_short: p
+                            .short
+                            .iter()
+                            .map(|(check, status)| Short {
+                                check: *check,
+                                status: *status,
+                            })
+                            .collect(),
+                        needs: p
+                            .needs
+                            .iter()
+                            .map(|(check, need)| NeedReport {
+                                check: *check,
+                                need: need.clone(),
+                                text: need_text(need),
+                            })
+                            .collect(),
+                    })
+                    .collect(),
+            })
+            .collect(),
+    }
+}

@@ -94,6 +94,28 @@ impl BoardReader {
         self.stream.is_empty()
     }
 
+    /// The board's defaults as written.
+    pub fn defaults(&self) -> &Arc<RawStage> {
+        &self.defaults
+    }
+
+    /// The stages from the first as written: each checked for its shape and parsed, not
+    /// resolved (its part need not be in any library), with its index in `stages`.
+    pub fn raw_stages(&mut self) -> Result<impl Iterator<Item = Result<(usize, RawStage)>> + '_> {
+        let label = self.stream.label().to_string();
+        let locator = self.stream.locator();
+        let elements = self.stream.stages()?;
+        Ok(elements.map(move |element| {
+            let element = element?;
+            let path = element.path();
+            let value: Value = element.raw.parse(&label, &path)?;
+            let raw = raw_stage(&label, &path, &value, "a stage").map_err(|e| {
+                e.locate_with(&|_: &str, p: &str| locator.locate_token(Some(&element), p))
+            })?;
+            Ok((element.index, raw))
+        }))
+    }
+
     /// The stages from the first, each checked, parsed and resolved over the defaults when it
     /// is reached; errors name the file, the JSON path, the line and the column, and quote the
     /// value as typed.

@@ -203,6 +203,14 @@ Exit codes as for audit, from the fixed board.")]
         #[arg(long)]
         strict: bool,
     },
+    /// Try every part of the library in one stage, each with its input resistors sized, and
+    /// rank them; when none passes, say what a part would need.
+    #[command(after_help = "Examples:
+  pinlow pick --supply 12V --logic-high 3V3 --load relay --coil 400 --clamp diode
+  pinlow pick --supply 12V --logic-high 3V3 --load strip --strip-voltage 12V --strip-current-per-metre 0.5A --strip-length 2m --drive nmos --top 3
+  pinlow pick examples/greenhouse.json --stage \"K1 vent relay\" --only-passing --format json
+  pinlow pick --supply 5V --logic-high 3V3 --load current --current 150mA --package TO-92 --parts ./my-parts")]
+    Pick(PickArgs),
     /// List, show or check part files.
     #[command(
         subcommand,
@@ -252,6 +260,47 @@ pub enum ShellArg {
     Fish,
     /// PowerShell.
     Powershell,
+}
+
+/// `pinlow pick ...`
+#[derive(Debug, Clone, Args)]
+pub struct PickArgs {
+    /// A board file, `-` for standard input, whose stage `--stage` names (its part, base or
+    /// gate resistor and pull-down are set aside). Without it, the stage flags describe the stage.
+    #[arg(value_name = "FILE")]
+    pub board: Option<PathBuf>,
+    /// The board's stage to pick a part for, by name.
+    #[arg(
+        long = "stage",
+        value_name = "NAME",
+        requires = "board",
+        help_heading = "Pick"
+    )]
+    pub stage_name: Option<String>,
+    /// The stage, when no board file is given (without --part: every part is tried).
+    #[command(flatten)]
+    pub stage: StageArgs,
+    /// Try only parts of this drive kind.
+    #[arg(long, value_name = "KIND", value_parser = clap::builder::PossibleValuesParser::new(crate::drive::KINDS.iter().map(|k| k.name)), help_heading = "Pick")]
+    pub drive: Option<String>,
+    /// Try only parts whose package holds TEXT (any case), e.g. SOT-23.
+    #[arg(long, value_name = "TEXT", help_heading = "Pick")]
+    pub package: Option<String>,
+    /// Keep only the candidates that pass.
+    #[arg(long, help_heading = "Pick")]
+    pub only_passing: bool,
+    /// Show the best N candidates only.
+    #[arg(long, value_name = "N", value_parser = clap::value_parser!(u32).range(1..), help_heading = "Pick")]
+    pub top: Option<u32>,
+    /// Parts beside the shipped ones.
+    #[command(flatten)]
+    pub library: LibraryArgs,
+    /// How the report is drawn.
+    #[command(flatten)]
+    pub report: ReportArgs,
+    /// Where it goes.
+    #[command(flatten)]
+    pub output: OutputArgs,
 }
 
 /// `pinlow parts ...`

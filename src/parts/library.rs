@@ -321,7 +321,7 @@ pub fn folder_files(dir: &Path) -> Result<Vec<PathBuf>> {
 }
 
 /// Levenshtein distance of two short strings, by characters.
-fn edit_distance(a: &str, b: &str) -> usize {
+pub fn edit_distance(a: &str, b: &str) -> usize {
     let b: Vec<char> = b.chars().collect();
     let mut row: Vec<usize> = (0..=b.len()).collect();
     for (i, ca) in a.chars().enumerate() {

@@ -5,8 +5,8 @@ mod library;
 pub mod points;
 
 pub use library::{
-    builtin_sources, check_file, check_paths, folder_files, read_part, Library, PartSource,
-    PartsPath,
+    builtin_sources, check_file, check_paths, edit_distance, folder_files, read_part, Library,
+    PartSource, PartsPath,
 };
 
 use crate::error::{Error, Place, Result};

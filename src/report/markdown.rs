@@ -52,7 +52,7 @@ impl Renderer for MarkdownRenderer {
     }
 }
 
-fn draw(blocks: Vec<Block>, mut out: String) -> String {
+pub(super) fn draw(blocks: Vec<Block>, mut out: String) -> String {
     {
         for block in blocks {
             match block {

@@ -7,6 +7,7 @@ mod json;
 mod layout;
 mod markdown;
 mod model;
+pub mod pick;
 pub mod rows;
 pub mod stream;
 mod table;

@@ -184,7 +184,7 @@ impl TableRenderer {
         t.to_string()
     }
 
-    fn draw(&self, blocks: Vec<Block>, mut out: String) -> String {
+    pub(super) fn draw(&self, blocks: Vec<Block>, mut out: String) -> String {
         for block in blocks {
             match block {
                 Block::Heading(level, text) => {

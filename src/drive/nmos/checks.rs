@@ -151,6 +151,12 @@ impl Explain for PinnedLow {
                 fe(self.vgs_min, "V"),
                 fe(self.lowest, "V")
             ),
+            // Marginal only for the test current: the drive itself reaches the figure.
+            Status::Marginal if self.vgs_min >= self.lowest => format!(
+                "the weakest gate drive {} reaches the lowest specified gate voltage {}, but the figure is not guaranteed at the load's current: {figure}{tail}",
+                fe(self.vgs_min, "V"),
+                fe(self.lowest, "V")
+            ),
             Status::Marginal => format!(
                 "the weakest gate drive {} is below the lowest gate voltage {} the datasheet specifies RDS(on) at, though at least 1.5 x the cold maximum threshold {}: {figure}{tail}",
                 fe(self.vgs_min, "V"),
