@@ -268,8 +268,25 @@ pub fn check_fraction(v: f64, place: Place) -> Result<f64> {
 
 /// A fraction as a percentage, `5 %`.
 pub fn pct(f: f64) -> String {
-    let s = format!("{:.1}", f * 100.0);
-    format!("{} %", s.strip_suffix(".0").unwrap_or(&s))
+    use std::fmt::Write as _;
+    let mut s = String::with_capacity(10);
+    // Whole tenths of a percent (every usual tolerance) by integers, the same digits as the
+    // float formatter gives; anything else by the float formatter. Writing to a String cannot
+    // fail.
+    let tenths = (f * 1000.0).round();
+    if (f * 1000.0 - tenths).abs() < 1e-6 && tenths.abs() < 1e12 {
+        // A whole number below 2^40: the cast is exact.
+        let t = tenths as i64;
+        let sign = if t < 0 { "-" } else { "" };
+        let _ = write!(s, "{sign}{}.{}", t.abs() / 10, t.abs() % 10);
+    } else {
+        let _ = write!(s, "{:.1}", f * 100.0);
+    }
+    if s.ends_with(".0") {
+        s.truncate(s.len() - 2);
+    }
+    s.push_str(" %");
+    s
 }
 
 /// What resolving a stage's load (or other part) collects beside the typed value: the stage's
@@ -293,6 +310,26 @@ impl Resolution<'_> {
 mod tests {
     use super::*;
     use crate::quantity::limits::OHMS;
+
+    #[test]
+    fn percentages_read_as_the_float_formatter_writes_them() {
+        // The integer path must give the float formatter's own digits.
+        let float = |f: f64| {
+            let s = format!("{:.1}", f * 100.0);
+            format!("{} %", s.strip_suffix(".0").unwrap_or(&s))
+        };
+        for k in -2000..=2000 {
+            let f = f64::from(k) * 0.0005;
+            assert_eq!(pct(f), float(f), "{f}");
+        }
+        for f in [
+            0.05, 0.1, 0.02, 0.001, 0.123, 0.0125, 0.9999, 1e-9, 0.333_333,
+        ] {
+            assert_eq!(pct(f), float(f), "{f}");
+        }
+        assert_eq!(pct(0.05), "5 %");
+        assert_eq!(pct(0.125), "12.5 %");
+    }
 
     fn specs() -> Vec<KeySpec> {
         vec![KeySpec {

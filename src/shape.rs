@@ -10,27 +10,30 @@ use crate::fields::json_type;
 /// Refuse `null` anywhere under `value` (at `path` in `file`) except as the value of a key in
 /// `allowed`.
 pub fn no_nulls(value: &Value, file: &str, path: &str, allowed: &[&str]) -> Result<()> {
-    match value {
-        Value::Null => Err(Error::Json {
-            place: Place::json(file, path),
+    match first_null(value, allowed) {
+        None => Ok(()),
+        Some(inner) => Err(Error::Json {
+            place: Place::json(file, join_path(path, &inner)),
             message: "null is not allowed here; leave the key out to take its default".into(),
         }),
-        Value::Array(items) => {
-            for (i, v) in items.iter().enumerate() {
-                no_nulls(v, file, &join_path(path, &format!("[{i}]")), allowed)?;
+    }
+}
+
+/// The path (below `value`) of the first `null` that is not the value of an allowed key; the
+/// path is only built for a `null` found.
+fn first_null(value: &Value, allowed: &[&str]) -> Option<String> {
+    match value {
+        Value::Null => Some(String::new()),
+        Value::Array(items) => items.iter().enumerate().find_map(|(i, v)| {
+            first_null(v, allowed).map(|inner| join_path(&format!("[{i}]"), &inner))
+        }),
+        Value::Object(map) => map.iter().find_map(|(k, v)| {
+            if v.is_null() && allowed.contains(&k.as_str()) {
+                return None;
             }
-            Ok(())
-        }
-        Value::Object(map) => {
-            for (k, v) in map {
-                if v.is_null() && allowed.contains(&k.as_str()) {
-                    continue;
-                }
-                no_nulls(v, file, &join_path(path, k), allowed)?;
-            }
-            Ok(())
-        }
-        _ => Ok(()),
+            first_null(v, allowed).map(|inner| join_path(k, &inner))
+        }),
+        _ => None,
     }
 }
 

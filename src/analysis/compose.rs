@@ -210,14 +210,18 @@ fn put(
     }
 }
 
-/// Resolve `own` over `defaults` with the stage's own part, and analyse it.
+/// Resolve `own` over `defaults` (`None`: the stage's own defaults, unchanged) with the stage's
+/// own part, and analyse it.
 fn rerun(
     stage: &Stage,
     own: &Map<String, Value>,
-    defaults: &Map<String, Value>,
+    defaults: Option<&Map<String, Value>>,
 ) -> Result<(RawStage, Stage, Analysis)> {
     let raw = from_map(own.clone())?;
-    let defaults = Arc::new(from_map(defaults.clone())?);
+    let defaults = match defaults {
+        Some(d) => Arc::new(from_map(d.clone())?),
+        None => Arc::clone(&stage.source.defaults),
+    };
     let switch = Arc::clone(&stage.switch);
     let s = resolve_with(
         &raw,
@@ -261,7 +265,8 @@ fn apply(stage: &Stage, before: &Analysis, edits: &[Edit]) -> Result<(Vec<Change
             }
         }
     }
-    let (_, _, first) = rerun(stage, &own, &local_defaults)?;
+    let changed_defaults = (local_defaults != defaults).then_some(&local_defaults);
+    let (_, _, first) = rerun(stage, &own, changed_defaults)?;
     // Write what the engine sized as fitted values, with a fitted rating that covers them all.
     if first.drive.series_sized {
         put(
@@ -304,7 +309,7 @@ fn apply(stage: &Stage, before: &Analysis, edits: &[Edit]) -> Result<(Vec<Change
         );
         note("resistor_rating_w");
     }
-    let (raw, s2, a2) = rerun(stage, &own, &defaults)?;
+    let (raw, s2, a2) = rerun(stage, &own, None)?;
     let changes = order
         .iter()
         .filter_map(|f| {

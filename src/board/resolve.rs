@@ -97,6 +97,13 @@ pub fn resolve_with(
     .run(part)
 }
 
+/// Where a key picked stands: the stage or the defaults.
+#[derive(Clone, Copy)]
+struct At<'k> {
+    key: &'k str,
+    from_defaults: bool,
+}
+
 struct Resolver<'a> {
     own: &'a RawStage,
     defaults: &'a Arc<RawStage>,
@@ -131,13 +138,20 @@ impl Resolver<'_> {
         get(self.defaults).map(|v| (v, true))
     }
 
-    /// Own value, else the default's, with its place.
-    fn pick_at<T: Clone>(
+    /// Own value, else the default's, with where it stands (a place is only built for an
+    /// error).
+    fn pick_at<'k, T: Clone>(
         &self,
-        key: &str,
+        key: &'k str,
         get: impl Fn(&RawStage) -> Option<T>,
-    ) -> Option<(T, Place)> {
-        self.pick(get).map(|(v, d)| (v, self.place(key, d)))
+    ) -> Option<(T, At<'k>)> {
+        self.pick(get)
+            .map(|(v, from_defaults)| (v, At { key, from_defaults }))
+    }
+
+    /// The place of a key picked.
+    fn at(&self, at: At<'_>) -> Place {
+        self.place(at.key, at.from_defaults)
     }
 
     fn missing(&self, key: &str, what: &str) -> Error {
@@ -153,10 +167,19 @@ impl Resolver<'_> {
         }
     }
 
-    fn within(v: f64, span: Span, place: Place) -> Result<f64> {
+    fn within(&self, v: f64, span: Span, at: At<'_>) -> Result<f64> {
         match span.reason(v) {
             None => Ok(v),
-            Some(reason) => Err(Error::range(place, show_number(v), reason)),
+            Some(reason) => Err(Error::range(self.at(at), show_number(v), reason)),
+        }
+    }
+
+    /// A tolerance: a fraction from 0 up to 1.
+    fn fraction(&self, v: f64, at: At<'_>) -> Result<f64> {
+        if v.is_finite() && (0.0..1.0).contains(&v) {
+            Ok(v)
+        } else {
+            check_fraction(v, self.at(at))
         }
     }
 
@@ -198,16 +221,16 @@ impl Resolver<'_> {
         let (part_id, part_place) = self
             .pick_at("part", |r| r.part.clone())
             .ok_or_else(|| self.missing("part", "a part id from the parts library"))?;
-        let switch = find_part(&part_id, part_place)?;
+        let switch = find_part(&part_id, self.at(part_place))?;
         let kind = switch.kind();
         self.drive_keys(kind)?;
 
         let (supply, at) = self
             .pick_at("supply_v", |r| r.supply_v)
             .ok_or_else(|| self.missing("supply_v", "the supply voltage"))?;
-        let supply = Self::within(supply, VOLTS, at)?;
+        let supply = self.within(supply, VOLTS, at)?;
         let supply_tolerance = match self.pick_at("supply_tolerance", |r| r.supply_tolerance) {
-            Some((v, at)) => check_fraction(v, at)?,
+            Some((v, at)) => self.fraction(v, at)?,
             None => {
                 self.assume(format!(
                     "supply tolerance ±{} assumed [practice]",
@@ -219,13 +242,13 @@ impl Resolver<'_> {
         let (logic_high, at) = self
             .pick_at("logic_high_v", |r| r.logic_high_v)
             .ok_or_else(|| self.missing("logic_high_v", "the pin's logic-high voltage"))?;
-        let logic_high = Self::within(logic_high, VOLTS, at)?;
+        let logic_high = self.within(logic_high, VOLTS, at)?;
         let logic_high_min = match self.pick_at("logic_high_min_v", |r| r.logic_high_min_v) {
             Some((v, at)) => {
-                let v = Self::within(v, VOLTS, at.clone())?;
+                let v = self.within(v, VOLTS, at)?;
                 if v > logic_high {
                     return Err(Error::invalid(
-                        at,
+                        self.at(at),
                         format!(
                             "the guaranteed logic high {} V is above the nominal {} V; it must not be",
                             show_number(v),
@@ -245,7 +268,7 @@ impl Resolver<'_> {
             }
         };
         let pin_limit = match self.pick_at("pin_limit_a", |r| r.pin_limit_a) {
-            Some((v, at)) => Self::within(v, AMPS, at)?,
+            Some((v, at)) => self.within(v, AMPS, at)?,
             None => {
                 self.assume(format!(
                     "pin limit {} assumed [practice, conservative]",
@@ -257,14 +280,24 @@ impl Resolver<'_> {
         let (t_min, t_max) = self.ambient()?;
         let series_key = kind.series.key;
         let series_resistor = match self.pick(|r| r.series_resistor(series_key)) {
-            Some((v, d)) => Some(ohms(Self::within(v, OHMS, self.place(series_key, d))?)),
+            Some((v, d)) => Some(ohms(self.within(
+                v,
+                OHMS,
+                At {
+                    key: series_key,
+                    from_defaults: d,
+                },
+            )?)),
             None => None,
         };
         let pull_down = match self.pick(|r| r.pull_down_ohms) {
-            Some((Some(v), d)) => PullDown::Given(ohms(Self::within(
+            Some((Some(v), d)) => PullDown::Given(ohms(self.within(
                 v,
                 OHMS,
-                self.place("pull_down_ohms", d),
+                At {
+                    key: "pull_down_ohms",
+                    from_defaults: d,
+                },
             )?)),
             Some((None, _)) => PullDown::None,
             // files.md: with a given series resistor a missing pull-down means none; when
@@ -352,7 +385,7 @@ impl Resolver<'_> {
         self.assumptions = notes;
         let resistor_tolerance = match self.pick_at("resistor_tolerance", |r| r.resistor_tolerance)
         {
-            Some((v, at)) => check_fraction(v, at)?,
+            Some((v, at)) => self.fraction(v, at)?,
             None => {
                 self.assume(format!(
                     "resistor tolerance ±{} assumed [practice]",
@@ -362,7 +395,7 @@ impl Resolver<'_> {
             }
         };
         let resistor_rating = match self.pick_at("resistor_rating_w", |r| r.resistor_rating_w) {
-            Some((v, at)) => Some(watts(Self::within(v, WATTS, at)?)),
+            Some((v, at)) => Some(watts(self.within(v, WATTS, at)?)),
             None => None,
         };
         let series_given = self.pick(|r| r.series).map(|(s, _)| s);
@@ -378,7 +411,7 @@ impl Resolver<'_> {
                 Some((v, at)) => {
                     if !(v.is_finite() && (OVERDRIVE.min..=OVERDRIVE.max).contains(&v)) {
                         return Err(Error::range(
-                            at,
+                            self.at(at),
                             show_number(v),
                             "an overdrive from 1 to 1000 is needed (2 to 5 is usual)",
                         ));
@@ -468,11 +501,10 @@ impl Resolver<'_> {
                     ))
                 }
                 (Some([lo, hi]), None) => {
-                    let at = self.place("ambient_c", from_defaults);
                     let ok = |t: f64| t.is_finite() && AMBIENT_RANGE_C.contains(&t);
                     if !ok(lo) || !ok(hi) {
                         return Err(Error::range(
-                            at,
+                            self.place("ambient_c", from_defaults),
                             format!("[{}, {}]", show_number(lo), show_number(hi)),
                             format!(
                                 "ambient temperatures from {} to {} °C are needed",
@@ -483,7 +515,7 @@ impl Resolver<'_> {
                     }
                     if lo > hi {
                         return Err(Error::invalid(
-                            at,
+                            self.place("ambient_c", from_defaults),
                             format!(
                                 "the minimum {} °C is above the maximum {} °C",
                                 show_number(lo),

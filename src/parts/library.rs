@@ -143,8 +143,18 @@ pub struct Library {
 }
 
 impl Library {
-    /// The shipped parts only.
+    /// The shipped parts only. They are read once a process (the version line and the command
+    /// both want them); later calls share the parts read.
     pub fn builtin() -> Result<Library> {
+        static SHIPPED: std::sync::OnceLock<Option<Library>> = std::sync::OnceLock::new();
+        match SHIPPED.get_or_init(|| Self::read_builtin().ok()) {
+            Some(lib) => Ok(lib.clone()),
+            // Read again for the error itself (the shipped files are tested to read).
+            None => Self::read_builtin(),
+        }
+    }
+
+    fn read_builtin() -> Result<Library> {
         let mut lib = Library::default();
         let mut seen: BTreeMap<String, String> = BTreeMap::new();
         for (name, text) in BUILTIN {

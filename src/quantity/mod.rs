@@ -504,14 +504,14 @@ pub fn parse_temperature_range(text: &str) -> Result<(f64, f64), ParseValueError
     Ok((low, high))
 }
 
-/// A finite, non-negative value rounded to 3 significant digits: the digits (always 3) and the
-/// decimal exponent of the first digit.
-fn three_digits(v: f64) -> Option<(String, i32)> {
+/// A finite, non-negative value rounded to 3 significant digits: the digits as a number of 100
+/// ..= 999 (0 for zero) and the decimal exponent of the first digit.
+fn three_digits(v: f64) -> Option<(u16, i32)> {
     if !(v.is_finite() && v >= 0.0) {
         return None;
     }
     if v == 0.0 {
-        return Some(("000".to_string(), 0));
+        return Some((0, 0));
     }
     // Scale to [100, 1000) and round; exact powers of ten keep decimal inputs such as 4700 or
     // 0.00274 exact. Far outside the prefix range, fall back to the exact decimal formatter.
@@ -541,7 +541,8 @@ fn three_digits(v: f64) -> Option<(String, i32)> {
         m = 100.0;
         exp += 1;
     }
-    Some((format!("{}", m as u16), exp))
+    // 100 ..= 999 here.
+    Some((m as u16, exp))
 }
 
 /// Exact powers of ten that f64 holds: 10^0 ..= 10^22.
@@ -551,12 +552,16 @@ const EXACT_POW10_F64: [f64; 23] = [
 ];
 
 /// Three significant digits by the exact decimal formatter (slow, always right).
-fn three_digits_exact(v: f64) -> Option<(String, i32)> {
+fn three_digits_exact(v: f64) -> Option<(u16, i32)> {
     let s = format!("{v:.2e}");
     let (mantissa, exp) = s.split_once('e')?;
     let exp = exp.parse::<i32>().ok()?;
     let digits: String = mantissa.chars().filter(char::is_ascii_digit).collect();
-    (digits.len() == 3).then_some((digits, exp))
+    if digits.len() != 3 {
+        return None;
+    }
+    let m = digits.parse::<u16>().ok()?;
+    Some((if m == 0 { 0 } else { m }, exp))
 }
 
 #[cfg(test)]
@@ -571,61 +576,89 @@ fn fast_three_digits_agree_with_the_exact_formatter() {
     }
 }
 
-/// Split `digits` into integer and fraction parts with `int_len` integer digits (padding with
-/// zeros on either side as needed); trailing zeros of the fraction are dropped.
-fn place_point(digits: &str, int_len: i32) -> (String, String) {
-    let n = digits.len() as i32;
-    let (int, frac) = if int_len <= 0 {
-        (
-            String::new(),
-            "0".repeat(int_len.unsigned_abs() as usize) + digits,
-        )
-    } else if int_len >= n {
-        (
-            digits.to_string() + &"0".repeat((int_len - n) as usize),
-            String::new(),
-        )
-    } else {
-        let (i, f) = digits.split_at(int_len as usize);
-        (i.to_string(), f.to_string())
-    };
-    (int, frac.trim_end_matches('0').to_string())
+/// The three digits of `m` (100 ..= 999, or 0) as ASCII.
+fn digit_bytes(m: u16) -> [u8; 3] {
+    // Each is a single decimal digit, so the casts cannot truncate.
+    [
+        b'0' + (m / 100 % 10) as u8,
+        b'0' + (m / 10 % 10) as u8,
+        b'0' + (m % 10) as u8,
+    ]
+}
+
+/// Push the integer part of the three digits of `m` placed with `int_len` integer digits
+/// (padding with zeros past them); nothing when `int_len <= 0`.
+fn push_int(out: &mut String, m: u16, int_len: i32) {
+    let d = digit_bytes(m);
+    for i in 0..int_len.max(0) {
+        let c = usize::try_from(i).ok().and_then(|i| d.get(i)).copied();
+        out.push(char::from(c.unwrap_or(b'0')));
+    }
+}
+
+/// Push the fraction part (after `int_len` integer digits, zeros before the digits when
+/// `int_len < 0`, trailing zeros dropped); false when it is empty and nothing was pushed.
+fn push_frac(out: &mut String, m: u16, int_len: i32) -> bool {
+    let d = digit_bytes(m);
+    let start = usize::try_from(int_len.max(0)).unwrap_or(3).min(3);
+    let end = d.iter().rposition(|&c| c != b'0').map_or(0, |i| i + 1);
+    if end <= start {
+        return false;
+    }
+    for _ in 0..int_len.min(0).unsigned_abs() {
+        out.push('0');
+    }
+    for &c in d.get(start..end).unwrap_or_default() {
+        out.push(char::from(c));
+    }
+    true
 }
 
 /// Format a number with an SI prefix and 3 significant digits: `format_engineering(0.00274, "A")`
 /// gives `2.74 mA`; `4700.0, "Ω"` gives `4.7 kΩ`; zero gives `0 A`; non-finite values give `-`.
 /// Prefixes run from p to G; values outside that range keep the end prefix.
 pub fn format_engineering(value: f64, unit: &str) -> String {
-    if !value.is_finite() {
+    let Some((m, exp)) = three_digits(value.abs()).filter(|_| value.is_finite()) else {
         return "-".to_string();
-    }
-    let (number, prefix) = match three_digits(value.abs()) {
-        Some((digits, _)) if digits == "000" => ("0".to_string(), ""),
-        Some((digits, exp)) => {
-            let e3 = (exp.div_euclid(3) * 3).clamp(-12, 9);
-            let (int, frac) = place_point(&digits, exp - e3 + 1);
-            let int = if int.is_empty() { "0".to_string() } else { int };
-            let sign = if value < 0.0 { "-" } else { "" };
-            let number = if frac.is_empty() {
-                format!("{sign}{int}")
-            } else {
-                format!("{sign}{int}.{frac}")
-            };
-            let prefix = match e3 {
-                -12 => "p",
-                -9 => "n",
-                -6 => "µ",
-                -3 => "m",
-                3 => "k",
-                6 => "M",
-                9 => "G",
-                _ => "",
-            };
-            (number, prefix)
-        }
-        None => return "-".to_string(),
     };
-    format!("{number} {prefix}{unit}").trim_end().to_string()
+    let mut out = String::with_capacity(12 + unit.len());
+    let prefix = if m == 0 {
+        out.push('0');
+        ""
+    } else {
+        let e3 = (exp.div_euclid(3) * 3).clamp(-12, 9);
+        let int_len = exp - e3 + 1;
+        if value < 0.0 {
+            out.push('-');
+        }
+        if int_len <= 0 {
+            out.push('0');
+        } else {
+            push_int(&mut out, m, int_len);
+        }
+        let before = out.len();
+        out.push('.');
+        if !push_frac(&mut out, m, int_len) {
+            out.truncate(before);
+        }
+        match e3 {
+            -12 => "p",
+            -9 => "n",
+            -6 => "µ",
+            -3 => "m",
+            3 => "k",
+            6 => "M",
+            9 => "G",
+            _ => "",
+        }
+    };
+    if !prefix.is_empty() || !unit.is_empty() {
+        out.push(' ');
+        out.push_str(prefix);
+        out.push_str(unit);
+    }
+    out.truncate(out.trim_end().len());
+    out
 }
 
 /// The IEC 60062 RKM code of a resistance in ohms: 4700 -> `4k7`, 0.47 -> `R47`, 2.2e6 -> `2M2`,
@@ -635,10 +668,10 @@ pub fn format_rkm(ohms: f64) -> String {
     if !ohms.is_finite() {
         return "-".to_string();
     }
-    let Some((digits, exp)) = three_digits(ohms.abs()) else {
+    let Some((m, exp)) = three_digits(ohms.abs()) else {
         return "-".to_string();
     };
-    if digits == "000" {
+    if m == 0 {
         return "0R".to_string();
     }
     let (letter, letter_exp) = match exp {
@@ -647,9 +680,15 @@ pub fn format_rkm(ohms: f64) -> String {
         e if e >= 3 => ('k', 3),
         _ => ('R', 0),
     };
-    let (int, frac) = place_point(&digits, exp - letter_exp + 1);
-    let sign = if ohms < 0.0 { "-" } else { "" };
-    format!("{sign}{int}{letter}{frac}")
+    let int_len = exp - letter_exp + 1;
+    let mut out = String::with_capacity(8);
+    if ohms < 0.0 {
+        out.push('-');
+    }
+    push_int(&mut out, m, int_len);
+    out.push(letter);
+    push_frac(&mut out, m, int_len);
+    out
 }
 
 /// Build a voltage from volts.

@@ -230,31 +230,28 @@ impl SafeFormatter {
     }
 }
 
-/// True when `s` may hold a character [`is_unsafe_char`] refuses that serde_json leaves raw:
-/// DEL, or a lead byte of the C1 controls (0xC2) or of the bidi controls (0xE2).
-fn may_hold_unsafe(s: &str) -> bool {
-    s.bytes().any(|b| matches!(b, 0x7f | 0xc2 | 0xe2))
-}
-
 impl serde_json::ser::Formatter for SafeFormatter {
     fn write_string_fragment<W: ?Sized + io::Write>(
         &mut self,
         writer: &mut W,
         fragment: &str,
     ) -> io::Result<()> {
-        if !may_hold_unsafe(fragment) {
-            return writer.write_all(fragment.as_bytes());
-        }
+        // Only the bytes that can start an unsafe character are looked at (`°` and `±` start
+        // with 0xC2 and `≥` with 0xE2 too, so the report's own text takes this path often).
+        let bytes = fragment.as_bytes();
         let mut start = 0usize;
-        for (at, c) in fragment.char_indices() {
+        for at in memchr::memchr3_iter(0x7f, 0xc2, 0xe2, bytes) {
+            let Some(c) = fragment.get(at..).and_then(|rest| rest.chars().next()) else {
+                continue;
+            };
             if is_unsafe_char(c) {
-                writer.write_all(fragment.get(start..at).unwrap_or_default().as_bytes())?;
+                writer.write_all(bytes.get(start..at).unwrap_or_default())?;
                 // Every unsafe character that serde_json leaves raw lies in the BMP.
                 write!(writer, "\\u{:04x}", u32::from(c))?;
                 start = at + c.len_utf8();
             }
         }
-        writer.write_all(fragment.get(start..).unwrap_or_default().as_bytes())
+        writer.write_all(bytes.get(start..).unwrap_or_default())
     }
 
     fn begin_array<W: ?Sized + io::Write>(&mut self, w: &mut W) -> io::Result<()> {

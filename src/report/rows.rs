@@ -126,7 +126,7 @@ pub fn tail_blocks(tail: &Tail) -> Vec<Block> {
         let items = tail
             .assumptions
             .iter()
-            .map(|(text, names)| format!("{text} ({})", stage_list(names, tail.shown)))
+            .map(|t| format!("{} ({})", t.text, stage_list(t, tail.shown)))
             .collect();
         out.push(Block::List(ASSUMPTIONS_HEADING.to_string(), items));
     }
@@ -135,19 +135,13 @@ pub fn tail_blocks(tail: &Tail) -> Vec<Block> {
 }
 
 /// "every stage", or up to eight names and a count of the rest.
-fn stage_list(names: &[String], shown: usize) -> String {
-    const MAX: usize = 8;
-    if names.len() == shown && shown > 1 {
+fn stage_list(taken: &super::stream::Taken, shown: usize) -> String {
+    if taken.count == shown && shown > 1 {
         return "every stage".to_string();
     }
-    let mut text = names
-        .iter()
-        .take(MAX)
-        .cloned()
-        .collect::<Vec<_>>()
-        .join(", ");
-    if names.len() > MAX {
-        text.push_str(&format!(" and {} more", names.len() - MAX));
+    let mut text = taken.names.join(", ");
+    if taken.count > taken.names.len() {
+        text.push_str(&format!(" and {} more", taken.count - taken.names.len()));
     }
     text
 }

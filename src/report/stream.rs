@@ -86,12 +86,29 @@ pub struct Tail {
     pub verdict: Status,
     /// Stages that pass, are marginal, fail (every stage).
     pub counts: (usize, usize, usize),
-    /// Each distinct assumption with the names of the shown stages that took it.
-    pub assumptions: Vec<(String, Vec<String>)>,
+    /// Each distinct assumption with the shown stages that took it.
+    pub assumptions: Vec<Taken>,
     /// Distinct cautions of the shown stages, then the general one.
     pub cautions: Vec<String>,
     /// Stages shown.
     pub shown: usize,
+}
+
+/// An assumption and the shown stages that took it: how many, and the first names (at most
+/// [`Taken::NAMES`]), so that the tail stays small on a board of any size.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Taken {
+    /// The assumption, in words.
+    pub text: String,
+    /// The first stages that took it, in order.
+    pub names: Vec<String>,
+    /// How many stages took it.
+    pub count: usize,
+}
+
+impl Taken {
+    /// Names kept.
+    pub const NAMES: usize = 8;
 }
 
 /// Gathers the tail while the stages stream past.
@@ -127,9 +144,18 @@ impl TailBuilder {
         let t = &mut self.tail;
         t.shown += 1;
         for a in &s.assumptions {
-            match t.assumptions.iter_mut().find(|(text, _)| text == a) {
-                Some((_, names)) => names.push(s.name.clone()),
-                None => t.assumptions.push((a.clone(), vec![s.name.clone()])),
+            match t.assumptions.iter_mut().find(|taken| &taken.text == a) {
+                Some(taken) => {
+                    taken.count += 1;
+                    if taken.names.len() < Taken::NAMES {
+                        taken.names.push(s.name.clone());
+                    }
+                }
+                None => t.assumptions.push(Taken {
+                    text: a.clone(),
+                    names: vec![s.name.clone()],
+                    count: 1,
+                }),
             }
         }
         for c in &s.cautions {

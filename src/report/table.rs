@@ -229,8 +229,11 @@ impl TableRenderer {
 
 impl Renderer for TableRenderer {
     fn head(&mut self, head: &Head) -> String {
-        let text = self.draw(head_blocks(head), String::new());
-        text.trim_start_matches('\n').to_string()
+        let mut text = self.draw(head_blocks(head), String::new());
+        // Drop the leading blank lines in place (the summary of a big board is large).
+        let lead = text.len() - text.trim_start_matches('\n').len();
+        text.drain(..lead);
+        text
     }
     fn stage(&mut self, stage: &StageReport) -> String {
         self.draw(stage_blocks(stage), String::new())
