@@ -36,7 +36,12 @@ fn push_escaped(out: &mut String, c: char) {
 /// Text for a terminal: every character [`is_unsafe_char`] refuses is shown escaped
 /// (`\u{1b}`), everything else passes unchanged.
 pub fn terminal_text(text: &str) -> Cow<'_, str> {
-    if !text.chars().any(is_unsafe_char) {
+    // Every unsafe character starts with a byte below 0x20, DEL, or the lead byte of a C1 or
+    // bidi control.
+    let may_hold = text
+        .bytes()
+        .any(|b| b < 0x20 || matches!(b, 0x7f | 0xc2 | 0xe2));
+    if !may_hold || !text.chars().any(is_unsafe_char) {
         return Cow::Borrowed(text);
     }
     let mut out = String::with_capacity(text.len() + 8);
@@ -82,11 +87,24 @@ pub fn markdown_link_text(text: &str) -> String {
 
 fn markdown_inline(text: &str, all_brackets: bool) -> String {
     let mut out = String::with_capacity(text.len() + 8);
-    let mut at = 0usize;
+    // Runs of characters that need nothing are copied whole; only a byte that can start a
+    // character needing an escape (an ASCII mark, a control, or the lead byte of a C1 or bidi
+    // control) is looked at (those are never UTF-8 continuation bytes).
+    let mut copied = 0usize;
     let mut after_bracket = false;
-    for c in text.chars() {
-        let here = at;
-        at += c.len_utf8();
+    for (here, b) in text.bytes().enumerate() {
+        if here < copied || !may_need_markdown_escape(b) {
+            if here >= copied {
+                after_bracket = false;
+            }
+            continue;
+        }
+        let Some(c) = text.get(here..).and_then(|rest| rest.chars().next()) else {
+            continue;
+        };
+        out.push_str(text.get(copied..here).unwrap_or_default());
+        let at = here + c.len_utf8();
+        copied = at;
         match c {
             c if is_unsafe_char(c) => push_escaped(&mut out, c),
             '<' => out.push_str("&lt;"),
@@ -116,7 +134,33 @@ fn markdown_inline(text: &str, all_brackets: bool) -> String {
         }
         after_bracket = c == ']';
     }
+    out.push_str(text.get(copied..).unwrap_or_default());
     out
+}
+
+/// True for a byte that can start a character [`markdown_inline`] may escape.
+fn may_need_markdown_escape(b: u8) -> bool {
+    b < 0x20
+        || matches!(
+            b,
+            b'<' | b'&'
+                | b'\\'
+                | b'`'
+                | b'*'
+                | b'_'
+                | b'~'
+                | b'!'
+                | b'|'
+                | b'#'
+                | b'['
+                | b']'
+                | b'('
+                | b':'
+                | b'.'
+                | 0x7f
+                | 0xc2
+                | 0xe2
+        )
 }
 
 /// [`markdown_text`] for text that starts a line (a paragraph or a list item): a leading
@@ -316,6 +360,64 @@ impl serde_json::ser::Formatter for SafeFormatter {
 
 #[cfg(test)]
 mod tests {
+    use proptest::prelude::*;
+
+    /// The escape rules of [`markdown_inline`] written character by character, the plain way.
+    fn inline_by_chars(text: &str, all_brackets: bool) -> String {
+        let mut out = String::new();
+        let mut after_bracket = false;
+        let chars: Vec<(usize, char)> = text.char_indices().collect();
+        for &(here, c) in &chars {
+            let at = here + c.len_utf8();
+            match c {
+                c if is_unsafe_char(c) => push_escaped(&mut out, c),
+                '<' => out.push_str("&lt;"),
+                '&' => out.push_str("&amp;"),
+                '\\' | '`' | '*' | '_' | '~' | '!' | '|' | '#' => {
+                    out.push('\\');
+                    out.push(c);
+                }
+                '[' | ']' if all_brackets => {
+                    out.push('\\');
+                    out.push(c);
+                }
+                '(' | '[' | ':' if after_bracket => {
+                    out.push('\\');
+                    out.push(c);
+                }
+                ':' if text[at..].starts_with("//") => out.push_str("\\:"),
+                '.' if here >= 3
+                    && text
+                        .get(here - 3..here)
+                        .is_some_and(|w| w.eq_ignore_ascii_case("www")) =>
+                {
+                    out.push_str("&#46;")
+                }
+                c => out.push(c),
+            }
+            after_bracket = c == ']';
+        }
+        out
+    }
+
+    proptest! {
+        #![proptest_config(ProptestConfig {
+            cases: 2000,
+            failure_persistence: None,
+            ..ProptestConfig::default()
+        })]
+
+        /// The run-copying escape gives what the character-by-character rules give, on text
+        /// dense in the characters it escapes.
+        #[test]
+        fn markdown_runs_escape_as_the_rules_say(
+            text in "([a-zA-Z0-9 ]|[<&\\\\`*_~!|#\\[\\]():./]|www|é|±|°|≥|\u{1b}|\u{85}|\u{202e}|\u{2067}|\u{7f})*",
+            all in any::<bool>(),
+        ) {
+            prop_assert_eq!(markdown_inline(&text, all), inline_by_chars(&text, all));
+        }
+    }
+
     use super::*;
 
     #[test]

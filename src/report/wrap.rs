@@ -9,6 +9,10 @@ use unicode_width::{UnicodeWidthChar, UnicodeWidthStr};
 /// Columns a text takes on a terminal (East Asian wide characters take two, combining marks
 /// none), not its length in bytes or characters.
 pub fn display_width(text: &str) -> usize {
+    // Printable ASCII takes one column a byte.
+    if text.bytes().all(|b| (0x20..0x7f).contains(&b)) {
+        return text.len();
+    }
     UnicodeWidthStr::width(text)
 }
 
