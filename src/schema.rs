@@ -121,7 +121,7 @@ pub fn board() -> Value {
     json!({
         "$schema": DRAFT_2020_12,
         "title": "pinlow board file",
-        "description": "A board of transistor switch stages for `pinlow audit` (files.md). Numbers are in base SI units; the key names the unit.",
+        "description": "A board of transistor switch stages for `pinlow audit` (docs/board-file.md). Numbers are in base SI units; the key names the unit.",
         "type": "object",
         "properties": properties,
         "required": ["stages"],
@@ -143,7 +143,7 @@ pub fn part() -> Value {
     json!({
         "$schema": DRAFT_2020_12,
         "title": "pinlow part file",
-        "description": "One transistor part (files.md): its `polarity` names the drive kind and the keys it takes. Numbers are in base SI units; the key names the unit.",
+        "description": "One transistor part (docs/part-file.md): its `polarity` names the drive kind and the keys it takes. Numbers are in base SI units; the key names the unit.",
         "type": "object",
         "properties": {
             "polarity": { "description": "The drive kind.", "enum": polarities }

@@ -134,7 +134,7 @@ pub enum Structure {
     /// One transistor.
     #[default]
     Single,
-    /// Two in a Darlington pair (stage-model 6b).
+    /// Two in a Darlington pair (docs/model.md, the Darlington pair).
     Darlington,
 }
 
