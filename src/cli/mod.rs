@@ -27,7 +27,9 @@ Files written with --output are written whole or not at all, never over an input
 a file pinlow did not write unless --force is given.
 Exit codes: 0 every stage passes or is marginal; 1 a stage fails (with --strict, marginal too);
 2 the input could not be used; 141 standard output was closed early (as by SIGPIPE).
-pinlow checks the driver stage only: follow local codes and licensed practice.";
+pinlow checks the driver stage only: follow local codes and licensed practice.
+Documentation in the source repository: docs/board-file.md (board files), docs/part-file.md
+(part files), docs/report.md (reports, exit codes, fix), docs/model.md (the stage model).";
 
 /// The whole command line.
 #[derive(Debug, Parser)]
