@@ -227,7 +227,7 @@ fn fixes(r: &Remedy) -> Vec<FixReport> {
                 action: p.why.sentence(),
                 apply,
                 recheck,
-                needs: p.needs.clone(),
+                needs: p.needs.iter().map(crate::report::rounded_need).collect(),
             }
         })
         .collect()
@@ -281,7 +281,7 @@ fn remedy_report(r: &Remedy) -> RemedyReport {
                     .iter()
                     .map(|(check, need)| NeedReport {
                         check: *check,
-                        need: need.clone(),
+                        need: crate::report::rounded_need(need),
                         text: need_text(need),
                     })
                     .collect()
@@ -399,7 +399,7 @@ pub fn pick_report(
                             .iter()
                             .map(|(check, need)| NeedReport {
                                 check: *check,
-                                need: need.clone(),
+                                need: crate::report::rounded_need(need),
                                 text: need_text(need),
                             })
                             .collect(),

@@ -13,13 +13,15 @@ use crate::board::Grade;
 use crate::eseries::Series;
 use crate::quantity::{parse_temperature_range, parse_value, ParseValueError, ValueKind};
 
-const ABOUT: &str = "Sizes and audits NPN transistor switch stages: a logic pin driving an NPN that pins a relay coil, LEDs, a strip segment or another load to ground, checked over worst-case corners.";
+const ABOUT: &str = "Sizes and audits transistor switch stages: a logic pin driving an NPN transistor or a logic-level N-channel MOSFET that pins a relay or solenoid coil, a motor, LEDs, a strip segment or another load to ground, checked over worst-case corners.";
 
 const AFTER_HELP: &str = "Examples:
   pinlow size --supply 12V --logic-high 3V3 --part demo-npn-40v --load relay --coil 400 --clamp diode
   pinlow audit examples/greenhouse.json
   pinlow audit examples/greenhouse.json --format markdown --output review.md
   cat examples/greenhouse.json | pinlow audit -
+  pinlow fix examples/greenhouse.json -o greenhouse-fixed.json
+  pinlow pick --supply 12V --logic-high 3V3 --load relay --coil 400 --clamp diode
   pinlow parts list
 
 Each command takes only its own flags (see `pinlow COMMAND --help`).
@@ -135,7 +137,7 @@ pub enum Command {
   pinlow audit --supply 12V --logic-high 3V3 --part demo-npn-40v --load relay --coil 400 --clamp diode --base-resistor 1k --pull-down 10k
   pinlow audit examples/greenhouse.json --yield 1000000 --seed 7")]
     Audit {
-        /// A board file (files.md), `-` for standard input. Without it, the stage flags
+        /// A board file (docs/board-file.md), `-` for standard input. Without it, the stage flags
         /// describe one stage.
         #[arg(value_name = "FILE")]
         board: Option<PathBuf>,
@@ -383,7 +385,7 @@ fn builds(s: &str) -> Result<u64, String> {
 pub enum FormatArg {
     /// Text tables.
     Table,
-    /// JSON (files.md).
+    /// JSON (docs/report.md).
     Json,
     /// Markdown for a design review.
     Markdown,

@@ -361,6 +361,15 @@ pub fn sig(x: f64) -> Option<f64> {
     Some(if r.is_finite() { r } else { x })
 }
 
+/// A part need with its figures at six significant digits, as the report shows every figure.
+pub fn rounded_need(n: &PartNeed) -> PartNeed {
+    PartNeed {
+        value: num(n.value),
+        at: n.at.map(|(key, v)| (key, num(v))),
+        ..n.clone()
+    }
+}
+
 /// [`sig`], keeping a non-finite value as it is.
 pub fn num(x: f64) -> f64 {
     sig(x).unwrap_or(x)

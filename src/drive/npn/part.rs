@@ -83,6 +83,7 @@ pub struct NpnRecord {
     pub provenance: String,
     /// `single` (default) or `darlington`.
     #[serde(default)]
+    #[serde(skip_serializing_if = "Option::is_none")]
     pub structure: Option<Structure>,
     /// Collector-emitter breakdown with the base open (VCEO), V.
     #[schemars(transform = crate::schema::accepts(Accepts::Span(VOLTS)))]
