@@ -5,28 +5,16 @@
 //! (best and median of the five) and, on Linux, the CPU time per build summed over the process's
 //! threads (median), which is the cost a build has on one core whatever else the machine runs.
 
+mod common;
+
 use std::time::Instant;
+
+use common::YIELD_BOARD as BOARD;
 
 use pinlow::analysis::analyse;
 use pinlow::analysis::yield_mc::{run_yield, YieldOptions, YieldResult, YieldStage};
 use pinlow::board::parse_board;
 use pinlow::parts::Library;
-
-/// A 12 V relay stage on an industrial board (demo part, 2.2 k base resistor, 22 k pull-down).
-const BOARD: &str = r#"{
-  "board": "yield bench",
-  "stages": [{
-    "name": "K1 relay",
-    "part": "demo-npn-40v",
-    "supply_v": 12,
-    "logic_high_v": 3.3,
-    "grade": "industrial",
-    "load": {"kind": "relay", "coil_ohms": 400},
-    "clamp": {"kind": "diode"},
-    "pull_down_ohms": 22000,
-    "base_resistor_ohms": 2200
-  }]
-}"#;
 
 const RUNS: usize = 5;
 

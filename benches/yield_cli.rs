@@ -8,33 +8,15 @@
 //! process floor (the same audit without `--yield`) is printed too, and the machine's load
 //! average before and after, since other work on the machine shows in wall times.
 
+mod common;
+
 use std::path::Path;
 use std::process::{Command, Stdio};
 use std::time::Instant;
 
-/// The relay stage of the library benchmark (benches/yield.rs).
-const BOARD: &str = r#"{
-  "board": "yield bench",
-  "stages": [{
-    "name": "K1 relay",
-    "part": "demo-npn-40v",
-    "supply_v": 12,
-    "logic_high_v": 3.3,
-    "grade": "industrial",
-    "load": {"kind": "relay", "coil_ohms": 400},
-    "clamp": {"kind": "diode"},
-    "pull_down_ohms": 22000,
-    "base_resistor_ohms": 2200
-  }]
-}"#;
+use common::{best_and_median, load_average, YIELD_BOARD as BOARD};
 
 const RUNS: usize = 7;
-
-fn load_average() -> String {
-    std::fs::read_to_string("/proc/loadavg")
-        .map(|s| s.split_whitespace().take(3).collect::<Vec<_>>().join(" "))
-        .unwrap_or_else(|_| "n/a".to_string())
-}
 
 /// Wall seconds of one run of the binary; the exit code (1: the stage fails its corner) is not
 /// an error here, a missing report is.
@@ -57,11 +39,6 @@ fn run(binary: &Path, board: &Path, args: &[&str], threads: Option<usize>) -> Re
         return Err(format!("no report (exit {:?})", out.status.code()));
     }
     Ok(wall)
-}
-
-fn best_and_median(mut v: Vec<f64>) -> (f64, f64) {
-    v.sort_by(f64::total_cmp);
-    (v[0], v[v.len() / 2])
 }
 
 fn main() -> Result<(), Box<dyn std::error::Error>> {

@@ -128,20 +128,7 @@ pub fn build(index: usize, stage: &Stage, a: &Analysis, remedy: Option<&Remedy>)
         pull_down_sized: a.drive.pull_down_sized,
         led_resistor_ohms: led.and_then(|o| o.value).map(|r| num(r.base())),
         led_resistor_sized: led.is_some_and(|o| o.sized && o.value.is_some()),
-        conditions: ConditionsReport {
-            supply_v: num(c.supply.base()),
-            supply_tolerance: c.supply_tolerance,
-            logic_high_v: num(c.logic_high.base()),
-            logic_high_min_v: num(c.logic_high_min.base()),
-            pin_limit_a: num(c.pin_limit.base()),
-            ambient_c: [num(c.ambient_min.base()), num(c.ambient_max.base())],
-            overdrive: kind
-                .stage_keys
-                .contains(&"overdrive")
-                .then_some(c.overdrive),
-            resistor_tolerance: c.resistor_tolerance,
-            series: c.series.to_string(),
-        },
+        conditions: conditions_report(c, kind.stage_keys.contains(&"overdrive")),
         resistors: a
             .resistors
             .iter()
@@ -351,21 +338,13 @@ pub fn pick_report(
             name: stage.name.clone(),
             index,
             load_kind: stage.load_kind(),
-            conditions: ConditionsReport {
-                supply_v: num(c.supply.base()),
-                supply_tolerance: c.supply_tolerance,
-                logic_high_v: num(c.logic_high.base()),
-                logic_high_min_v: num(c.logic_high_min.base()),
-                pin_limit_a: num(c.pin_limit.base()),
-                ambient_c: [num(c.ambient_min.base()), num(c.ambient_max.base())],
-                overdrive: picked
+            conditions: conditions_report(
+                c,
+                picked
                     .kinds
                     .iter()
-                    .any(|k| k.stage_keys.contains(&"overdrive"))
-                    .then_some(c.overdrive),
-                resistor_tolerance: c.resistor_tolerance,
-                series: c.series.to_string(),
-            },
+                    .any(|k| k.stage_keys.contains(&"overdrive")),
+            ),
             load: raw(|r| r.load.as_ref()).unwrap_or_default(),
             clamp: raw(|r| r.clamp.as_ref()),
         },
@@ -407,5 +386,21 @@ pub fn pick_report(
                     .collect(),
             })
             .collect(),
+    }
+}
+
+/// The conditions as the report gives them; the overdrive wanted only where a drive kind of the
+/// stage takes one.
+fn conditions_report(c: &crate::conditions::Conditions, overdrive: bool) -> ConditionsReport {
+    ConditionsReport {
+        supply_v: num(c.supply.base()),
+        supply_tolerance: c.supply_tolerance,
+        logic_high_v: num(c.logic_high.base()),
+        logic_high_min_v: num(c.logic_high_min.base()),
+        pin_limit_a: num(c.pin_limit.base()),
+        ambient_c: [num(c.ambient_min.base()), num(c.ambient_max.base())],
+        overdrive: overdrive.then_some(c.overdrive),
+        resistor_tolerance: c.resistor_tolerance,
+        series: c.series.to_string(),
     }
 }

@@ -7,6 +7,23 @@ use std::path::Path;
 use std::process::{Command, Stdio};
 use std::time::Instant;
 
+/// The yield benches' board: a 12 V relay stage on an industrial board (demo part, 2.2 k base
+/// resistor, 22 k pull-down).
+pub const YIELD_BOARD: &str = r#"{
+  "board": "yield bench",
+  "stages": [{
+    "name": "K1 relay",
+    "part": "demo-npn-40v",
+    "supply_v": 12,
+    "logic_high_v": 3.3,
+    "grade": "industrial",
+    "load": {"kind": "relay", "coil_ohms": 400},
+    "clamp": {"kind": "diode"},
+    "pull_down_ohms": 22000,
+    "base_resistor_ohms": 2200
+  }]
+}"#;
+
 /// A board of `n` stages cycling through the drive and load kinds: relay, LEDs, strip and current
 /// loads and a motor on the demo NPN part, a strip and a motor on the demo MOSFET. With `sized`
 /// the NPN stages leave RB out (the engine sizes it); otherwise each gives its own.

@@ -17,7 +17,7 @@ use crate::outputs::{Inputs, Kind, Plan};
 use crate::parts::Library;
 use crate::pipeline::need_text;
 use crate::report::escape::terminal_text;
-use crate::report::rows::{field_label, show_value};
+use crate::report::rows::change_words;
 
 /// What `fix` did to one stage.
 #[derive(Clone, Debug, PartialEq)]
@@ -66,17 +66,7 @@ pub fn fix_board(reader: &mut BoardReader, lib: &Library) -> Result<Fixed> {
                     let words = r
                         .changes
                         .iter()
-                        .map(|c| {
-                            format!(
-                                "{} {} -> {}",
-                                field_label(&c.field),
-                                c.from
-                                    .as_ref()
-                                    .map(|v| show_value(&c.field, v))
-                                    .unwrap_or_else(|| "none".into()),
-                                show_value(&c.field, &c.to)
-                            )
-                        })
+                        .map(|c| change_words(&c.field, c.from.as_ref(), &c.to))
                         .collect();
                     Outcome::Fixed(a.verdict, after.analysis.verdict, words)
                 }

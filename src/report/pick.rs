@@ -7,7 +7,7 @@ use serde::Serialize;
 use serde_json::{Map, Value};
 
 use super::model::{ConditionsReport, NeedReport, Short, StageReport, GENERAL_CAUTION};
-use super::rows::{plain, Block, Cell};
+use super::rows::{conditions_words, pct, plain, Block, Cell};
 use super::{markdown, Format, TableRenderer};
 use crate::check::Status;
 use crate::drive::PINNED_LOW;
@@ -160,20 +160,9 @@ pub fn margin_text(r: &StageReport) -> String {
 }
 
 fn conditions_line(c: &ConditionsReport) -> String {
-    let pct = |f: f64| format!("{} %", plain(Some(f * 100.0), 3));
     format!(
-        "Supply {} ±{}, logic high {} (min {}), pin limit {}, ambient {} .. {} °C{}; resistors ±{}, {}",
-        fe(c.supply_v, "V"),
-        pct(c.supply_tolerance),
-        fe(c.logic_high_v, "V"),
-        fe(c.logic_high_min_v, "V"),
-        fe(c.pin_limit_a, "A"),
-        plain(Some(c.ambient_c[0]), 4),
-        plain(Some(c.ambient_c[1]), 4),
-        match c.overdrive {
-            Some(k) => format!(", overdrive {} (npn)", plain(Some(k), 3)),
-            None => String::new(),
-        },
+        "{}; resistors ±{}, {}",
+        conditions_words(c, " (npn)"),
         pct(c.resistor_tolerance),
         c.series
     )

@@ -224,21 +224,7 @@ fn stage_into(out: &mut Vec<Block>, s: &StageReport) {
     if let Some(note) = &s.plot_note {
         out.push(Block::Line(format!("No picture: {note}.")));
     }
-    let c = &s.conditions;
-    out.push(Block::Line(format!(
-        "Supply {} ±{}, logic high {} (min {}), pin limit {}, ambient {} .. {} °C{}",
-        fe(c.supply_v, "V"),
-        pct(c.supply_tolerance),
-        fe(c.logic_high_v, "V"),
-        fe(c.logic_high_min_v, "V"),
-        fe(c.pin_limit_a, "A"),
-        plain(Some(c.ambient_c[0]), 4),
-        plain(Some(c.ambient_c[1]), 4),
-        match c.overdrive {
-            Some(k) => format!(", overdrive {}", plain(Some(k), 3)),
-            None => String::new(),
-        }
-    )));
+    out.push(Block::Line(conditions_words(&s.conditions, "")));
     out.push(Block::Table {
         headers: vec![
             "Resistor".into(),
@@ -355,17 +341,7 @@ fn stage_into(out: &mut Vec<Block>, s: &StageReport) {
                 let changes: Vec<String> = r
                     .changes
                     .iter()
-                    .map(|c| {
-                        format!(
-                            "{} {} -> {}",
-                            field_label(&c.field),
-                            c.from
-                                .as_ref()
-                                .map(|v| show_value(&c.field, v))
-                                .unwrap_or_else(|| "none".into()),
-                            show_value(&c.field, &c.to)
-                        )
-                    })
+                    .map(|c| change_words(&c.field, c.from.as_ref(), &c.to))
                     .collect();
                 items.push(format!("the change, all at once: {}", changes.join("; ")));
             }
@@ -403,6 +379,21 @@ fn stage_into(out: &mut Vec<Block>, s: &StageReport) {
         }
         out.push(Block::List(format!("Fixes, {}", s.name), items));
     }
+}
+
+/// A change of a board field in words: `RB 4k7 -> 1k6`, `pull-down none -> 47k`.
+pub fn change_words(
+    field: &str,
+    from: Option<&serde_json::Value>,
+    to: &serde_json::Value,
+) -> String {
+    format!(
+        "{} {} -> {}",
+        field_label(field),
+        from.map(|v| show_value(field, v))
+            .unwrap_or_else(|| "none".into()),
+        show_value(field, to)
+    )
 }
 
 /// A board field as a user names it.
@@ -522,8 +513,27 @@ fn yield_blocks(out: &mut Vec<Block>, y: &crate::analysis::yield_mc::YieldResult
     }
 }
 
-fn pct(f: f64) -> String {
+pub(super) fn pct(f: f64) -> String {
     format!("{} %", plain(Some(f * 100.0), 3))
+}
+
+/// The conditions of a stage in one line: supply, logic pin, ambient and the overdrive wanted
+/// (`overdrive_note` after it, e.g. ` (npn)`).
+pub(super) fn conditions_words(c: &super::model::ConditionsReport, overdrive_note: &str) -> String {
+    format!(
+        "Supply {} ±{}, logic high {} (min {}), pin limit {}, ambient {} .. {} °C{}",
+        fe(c.supply_v, "V"),
+        pct(c.supply_tolerance),
+        fe(c.logic_high_v, "V"),
+        fe(c.logic_high_min_v, "V"),
+        fe(c.pin_limit_a, "A"),
+        plain(Some(c.ambient_c[0]), 4),
+        plain(Some(c.ambient_c[1]), 4),
+        match c.overdrive {
+            Some(k) => format!(", overdrive {}{overdrive_note}", plain(Some(k), 3)),
+            None => String::new(),
+        }
+    )
 }
 
 #[cfg(test)]
