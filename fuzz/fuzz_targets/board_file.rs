@@ -1,18 +1,23 @@
-//! Fuzz the board-file loader with the shipped parts, then the whole engine: audit (which runs
-//! the fixes) and every renderer, the SVG plot included. The JSON report must parse back.
+//! Fuzz the board-file reader with the shipped parts, then the whole engine for every drive and
+//! load kind: the analysis, the composed remedy and its re-check, the picture and its SVG, and
+//! every renderer. The JSON report must parse back; the SVG must be well-formed XML.
 //!
-//! Beyond "no panic", every accepted board must give a sane answer: figures finite, a pass on
-//! pinned-low only at the overdrive asked, a stage verdict that is its worst check. An infinite
-//! or NaN figure would turn into `null` or a silent pass, so it counts as a finding.
+//! Beyond "no panic", every accepted board must give a sane answer: corner and drive figures
+//! finite, a pass on pinned-low of an npn stage only at the overdrive asked, a stage verdict that
+//! is its worst check, a remedy that never leaves the stage worse, and no raw control byte in
+//! the text reports. An infinite or NaN figure would turn into `null` or a silent pass, so it
+//! counts as a finding.
 #![no_main]
 
 use std::sync::OnceLock;
 
 use libfuzzer_sys::fuzz_target;
-use pinlow::analysis::{analyse, audit, CheckId, Status};
+use pinlow::analysis::{analyse, compose, Analysis};
 use pinlow::board::parse_board;
-use pinlow::load::Load;
+use pinlow::check::{worst, Status};
+use pinlow::drive::PINNED_LOW;
 use pinlow::parts::Library;
+use pinlow::pipeline::{audit, picture};
 use pinlow::quantity::Base;
 use pinlow::report::{render, Format};
 use pinlow::stage::Stage;
@@ -29,32 +34,38 @@ fuzz_target!(|data: &[u8]| {
     let board = match parse_board("fuzz.json", text, library()) {
         Ok(b) => b,
         Err(e) => {
-            let _ = e.to_string();
+            assert!(!e.to_string().is_empty());
             return;
         }
     };
     for stage in &board.stages {
-        sane(stage);
-        // The SVG plot is the fourth renderer (`pinlow plot`); an error is fine, a panic is not.
-        if let Err(e) = pinlow::plot::stage_svg(stage, &analyse(stage)) {
-            assert!(!e.is_empty());
+        let a = analyse(stage);
+        sane(stage, &a);
+        if let Some(remedy) = compose(stage, &a) {
+            if let Some(after) = remedy.after {
+                assert!(
+                    after.analysis.verdict <= a.verdict,
+                    "the remedy leaves stage `{}` worse",
+                    stage.name
+                );
+                sane(&after.stage, &after.analysis);
+            }
+        }
+        // The picture is the fourth renderer (`pinlow plot`): a stage may have none (an error
+        // with a reason), but a picture must draw as well-formed SVG.
+        match picture(stage, &a) {
+            Ok(p) => match pinlow::plot::picture_svg(&p) {
+                Ok(svg) => {
+                    if let Err(e) = roxmltree::Document::parse(&svg) {
+                        panic!("SVG of stage `{}` is not well-formed: {e}", stage.name);
+                    }
+                }
+                Err(e) => assert!(!e.is_empty()),
+            },
+            Err(e) => assert!(!e.is_empty()),
         }
     }
     let report = audit(board.name.clone(), &board.stages);
-    for s in &report.stages {
-        let w = &s.worst_case;
-        for (name, v) in [
-            ("collector_current_max_a", w.collector_current_max_a),
-            ("base_current_min_a", w.base_current_min_a),
-            ("gain_min", w.gain_min),
-            ("pin_current_max_a", w.pin_current_max_a),
-            ("power_max_w", w.power_max_w),
-            ("junction_max_c", w.junction_max_c),
-            ("base_resistor_ohms", s.base_resistor_ohms),
-        ] {
-            assert!(v.is_finite(), "stage {}: {name} = {v}", s.name);
-        }
-    }
     for (format, color) in [
         (Format::Table, false),
         (Format::Table, true),
@@ -63,63 +74,60 @@ fuzz_target!(|data: &[u8]| {
     ] {
         let out = render(&report, format, color);
         assert!(!out.is_empty());
+        // Text reports carry no control byte but newlines (and, in colour, the ESC of the
+        // colour codes); JSON escapes every control character.
+        let allowed = |c: char| c == '\n' || (color && c == '\u{1b}');
+        if let Some(c) = out.chars().find(|&c| c.is_control() && !allowed(c)) {
+            panic!("raw control character {c:?} in the {format:?} report");
+        }
         if format == Format::Json {
             let v: serde_json::Value = serde_json::from_str(&out)
                 .unwrap_or_else(|e| panic!("JSON report does not parse back: {e}\n{out}"));
-            assert!(v.get("verdict").is_some());
+            assert_eq!(v["model_version"].as_u64(), Some(2));
         }
     }
-    let _ = render(&report.only_problems(), Format::Table, false);
 });
 
 /// The engine's figures for one accepted stage are finite and agree with its verdicts.
-fn sane(stage: &Stage) {
-    let a = analyse(stage);
-    let w = &a.worst;
-    let ic = w.load.ic_max.base();
-    assert!(ic.is_finite() && ic >= 0.0, "IC,max {ic}");
-    if !matches!(stage.load, Load::Led(_)) {
-        assert!(ic > 0.0, "a {} load draws nothing", stage.load.kind_name());
-    }
-    assert!(
-        w.load.gain_min.is_finite() && w.load.gain_min > 0.0,
-        "gain {}",
-        w.load.gain_min
-    );
-    assert!(
-        w.base_current_min.base().is_finite(),
-        "IB,min {:?}",
-        w.base_current_min
-    );
-    assert!(!w.overdrive_min.is_nan(), "overdrive NaN");
-    if w.overdrive_min.is_infinite() {
-        assert_eq!(ic, 0.0, "infinite overdrive with a load current");
-    }
+fn sane(stage: &Stage, a: &Analysis) {
+    let c = &a.corner;
     for (name, v) in [
-        ("pin current", w.pin_current_max.base()),
-        ("power", w.power_max.base()),
-        ("RB power", w.rb_power.base()),
+        ("VCC,max", c.vcc_max.base()),
+        ("VCC,min", c.vcc_min.base()),
+        ("IC,max", c.current_max.base()),
+        ("linear fraction", c.linear_fraction),
     ] {
         assert!(v.is_finite() && v >= 0.0, "{name} {v}");
     }
-    assert!(w.junction_max.base().is_finite(), "Tj {:?}", w.junction_max);
-    if let Some(led) = w.led {
-        assert!(led.min.base() <= led.max.base(), "LED min above max");
+    if let Some(peak) = c.peak {
+        assert!(peak.base().is_finite(), "peak {peak:?}");
     }
-    let worst = a
-        .findings
-        .iter()
-        .map(|f| f.status)
-        .max()
-        .unwrap_or(Status::Pass);
-    assert_eq!(a.verdict, worst, "verdict is not the worst check");
-    if let Some(f) = a.findings.iter().find(|f| f.id == CheckId::PinnedLow) {
-        if f.status == Status::Pass {
+    let d = &a.drive;
+    for (name, v) in [
+        ("series resistor", d.series.base()),
+        ("series power", d.series_power.base()),
+        ("on-voltage", d.on_voltage_max.base()),
+        ("pin current", d.pin_current_max.base()),
+    ] {
+        assert!(v.is_finite() && v >= 0.0, "{name} {v}");
+    }
+    assert!(d.series.base() > 0.0, "no series resistor");
+    if let Some(p) = d.power_max {
+        assert!(p.base().is_finite() && p.base() >= 0.0, "power {p:?}");
+    }
+    if let Some(t) = d.junction_max {
+        assert!(t.base().is_finite(), "Tj {t:?}");
+    }
+    assert_eq!(a.verdict, worst(&a.findings), "verdict is not the worst check");
+    if let Some(n) = pinlow::drive::npn::detail(d) {
+        let od = n.worst.overdrive;
+        assert!(od.is_none_or(|k| !k.is_nan()), "overdrive NaN");
+        if a.finding(PINNED_LOW).map(|f| f.status) == Some(Status::Pass) {
+            let k = od.expect("a pass on pinned-low has an overdrive");
             assert!(
-                w.overdrive_min >= stage.overdrive,
-                "pinned-low passes at overdrive {} < {}",
-                w.overdrive_min,
-                stage.overdrive
+                k >= stage.conditions.overdrive * (1.0 - 1e-9),
+                "pinned-low passes at overdrive {k} < {}",
+                stage.conditions.overdrive
             );
         }
     }
