@@ -32,32 +32,45 @@
 //!    modelled as a behavioural source in series with the channel, driven by a thermal node:
 //!    the switch's dissipation VDS x ID flows into RthJA to Ta,max. ngspice solves circuit and
 //!    heating together by Newton iteration; the engine uses the closed form of stage-model 8.
-//!    The drain voltage must agree with the engine's Von,max within 3 %. This checks the gate
-//!    divider at its tolerances, the self-consistent junction and the on-voltage. It does not
-//!    check whether the datasheet figure holds at that gate drive: the channel is fitted at the
-//!    engine's own gate voltage, so the level-1 curvature cannot enter. That is test 2.
+//!    Asserted: the drain voltage within 3 % of the engine's Von,max, the gate within 0.1 % of
+//!    VGS,min, the junction within 1 K, and the hot drain inside the triode region. This checks
+//!    the gate divider at its tolerances, the self-consistent junction and the on-voltage. It
+//!    does not check whether the datasheet figure holds at that gate drive: the channel is
+//!    fitted at the engine's own gate voltage and current, so the level-1 curvature cannot
+//!    enter. That is test 2.
 //! 2. `spec_point_model_bounds_the_on_voltage` (the same stages). The channel is fitted where
-//!    the datasheet states the figure: at the RDS(on) point's gate voltage moved to the cold
-//!    corner (overdrive VGS_point - VGS(th),max(25 C), the threshold's cold rise added to both),
-//!    at the point's test current (or ID,max when it states none), to the engine's hot
-//!    RDS(on),max; it is then driven by the stage's real gate network. A square-law channel's
-//!    chord resistance VDS/ID falls as the overdrive rises and rises with the current, so when
-//!    the engine's point lies at or below the drive (VGS,eff) and ID,max is within the point's
-//!    test current, the simulated drain voltage cannot exceed Von,max: asserted within 3 %. This
-//!    is a genuine check of the point the engine picks and of its cold correction VGS,eff (the
-//!    simulated drain falls below Von,max by as much as the drive exceeds the point: the engine
-//!    never interpolates upward). Where no point lies at or below VGS,eff the engine may still
-//!    pass (stage-model 8 passes a drive that reaches the lowest point at 25 C); it must then
-//!    say that the figure is not guaranteed, and the test counts how often the square-law
-//!    channel exceeds Von,max there.
-//! 3. `below_one_and_a_half_thresholds_the_switch_leaves_its_ohmic_region` (stages whose
-//!    VGS,min is below 1.5 x VGS(th),max cold). Channel fitted as in 2 at the part's lowest
-//!    point, with RDS(on) at the junction the engine would settle at if the stage were ohmic.
-//!    The load is a resistor VCC,max / ID,max from VCC,max (it draws ID,max with the drain at
-//!    0 V and less as the drain rises: a milder demand than the current load itself, so it
-//!    favours the ohmic region). Out of the ohmic region means cut off (VGS <= VTO) or
-//!    saturated (VDS >= VGS - VTO), the level-1 region boundary above: there the drain no longer
-//!    follows ID x R but the channel limits the current.
+//!    the datasheet states the figure: at the engine's RDS(on) point with the overdrive it has
+//!    at 25 C, VGS_point - VGS(th),max(25 C) (in the cold corner both the gate voltage and VTO
+//!    move up by the threshold's rise), at the point's test current (or ID,max when it states
+//!    none), to the engine's hot RDS(on),max; it is then driven by the stage's real gate
+//!    network. A square-law channel's chord resistance VDS/ID falls as the overdrive rises and
+//!    rises with the current, so when the engine's point lies at or below the drive (VGS,eff)
+//!    and ID,max is within the point's test current, the simulated drain voltage cannot exceed
+//!    Von,max: asserted within 3 %. This is a genuine check of the point the engine picks and of
+//!    its cold correction VGS,eff; the simulated drain falls below Von,max by as much as the
+//!    drive exceeds the point (the engine never interpolates upward). Where no point lies at or
+//!    below VGS,eff the engine may still pass (stage-model 8 passes a drive VGS,min that reaches
+//!    the lowest point's 25 C gate voltage); it must then say that the figure is not
+//!    guaranteed, and the test counts how often the square-law channel exceeds Von,max there.
+//! 3. `below_one_and_a_half_thresholds_the_switch_is_not_pinned` (stages whose VGS,min is below
+//!    1.5 x VGS(th),max cold). Channel fitted as in 2 at the part's lowest point, with RDS(on)
+//!    at the junction the engine would settle at if the stage were ohmic. The load is a
+//!    resistor VCC,max / ID,max from VCC,max (it draws ID,max with the drain at 0 V and less as
+//!    the drain rises: a milder demand than the current load itself, so it favours the ohmic
+//!    region). Out of the ohmic region means cut off (VGS <= VTO) or saturated
+//!    (VDS >= VGS - VTO), the level-1 region boundary above: there the channel, not the load,
+//!    sets the current. The 1.5 x rule looks at the gate voltage only; the square-law channel
+//!    saturates once the load asks more than KP (VGS - VTO)^2 / 2, so a light load can still
+//!    find it ohmic. Asserted, for the stages below the lowest point (the engine must fail
+//!    them): a load above the point's test current leaves the channel out of the ohmic region;
+//!    a lighter load that finds it ohmic sees a drop above ID x RDS(on) of the point (not the
+//!    on-state the figure promises). For the stages at or above the lowest point the engine
+//!    passes on the figure: with the point at or below VGS,eff the channel is ohmic; above it
+//!    the engine must say the figure is not guaranteed (counted how often ngspice saturates).
+//!
+//! A point that lies at or beyond the saturation edge of a channel at the maximum threshold
+//! (BSS123's 4.5 V point: 170 mA x 10 ohm = 1.7 V against 4.5 - 2.8 V, before any heating)
+//! cannot be fitted; such stages are counted and left out of tests 2 and 3.
 
 mod support;
 
@@ -356,7 +369,7 @@ fn spec_point_model_bounds_the_on_voltage() {
         "{:<46} {:>6} {:>8} {:>8} {:>10} {:>10} {:>9}",
         "stage", "point", "VGS,min", "VGS,eff", "Von eng", "VDS spice", "VDS/Von"
     );
-    let (mut bounded, mut flagged, mut exceeded, mut no_fit) = (0, 0, 0, 0);
+    let (mut bounded, mut flagged, mut exceeded, mut saturated, mut no_fit) = (0, 0, 0, 0, 0);
     let mut largest_bounded: f64 = 0.0;
     for (s, a) in &cases {
         let w = worst(a);
@@ -386,7 +399,8 @@ fn spec_point_model_bounds_the_on_voltage() {
             gate = gate_lines(s, w),
             model = model_line(w.th_max_cold.base(), kp),
         );
-        let vd = ngspice::run(&netlist, &["v(d)"])["v(d)"];
+        let v = ngspice::run(&netlist, &["v(d)", "v(g)"]);
+        let (vd, vg) = (v["v(d)"], v["v(g)"]);
         let ratio = vd / von;
         eprintln!(
             "{:<46} {:>6} {:>8.4} {:>8.4} {:>10.5} {:>10.4e} {:>9.4}",
@@ -427,12 +441,16 @@ fn spec_point_model_bounds_the_on_voltage() {
             if ratio > 1.0 + ON_VOLTAGE_TOLERANCE {
                 exceeded += 1;
             }
+            if region(vg, vd, w.th_max_cold.base()) != Region::Ohmic {
+                saturated += 1;
+            }
         }
     }
     eprintln!(
         "{bounded} stages with the point at or below VGS,eff (largest VDS/Von,max {largest_bounded:.4}); \
          {flagged} passes with the point above VGS,eff, {exceeded} of them above Von,max + 3 % in \
-         the simulation; {no_fit} points outside the triode region"
+         the simulation, {saturated} saturated; {no_fit} left out (point outside the triode \
+         region)"
     );
     assert!(
         bounded >= 60,
@@ -467,7 +485,7 @@ fn region(vg: f64, vd: f64, vto: f64) -> Region {
 }
 
 #[test]
-fn below_one_and_a_half_thresholds_the_switch_leaves_its_ohmic_region() {
+fn below_one_and_a_half_thresholds_the_switch_is_not_pinned() {
     if skip() {
         return;
     }
@@ -597,7 +615,8 @@ fn below_one_and_a_half_thresholds_the_switch_leaves_its_ohmic_region() {
         }
     }
     eprintln!(
-        "{} stages below 1.5 x VGS(th),max cold ({no_fit} points outside the triode region): \
+        "{} stages below 1.5 x VGS(th),max cold simulated, {no_fit} left out (lowest point outside \
+         the triode region): \
          {fail} fail pinned-low, {out} of them out of the ohmic region in ngspice; {heavy} with \
          the load above the point's test current, all out; {light} lighter loads still ohmic with \
          a drop above the figure's. Passes on a point reached at 25 C: {pass_ok} with the point \
