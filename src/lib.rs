@@ -1,9 +1,12 @@
-//! pinlow: sizes and audits NPN transistor switch stages driven from a logic pin.
+//! pinlow: sizes and audits low-side switch stages driven from a logic pin: an NPN transistor
+//! (or Darlington pair) or a logic-level N-channel MOSFET pinning a load to ground.
 //!
 //! Data flows one way: typed input ([`stage::Stage`], built from flags or a board file by
-//! [`board`]) goes into the engine ([`analysis::analyse`]), which returns one
-//! [`report::StageReport`] per stage; the renderers in [`report`] turn a [`report::Report`] into a
-//! table, JSON or Markdown and never compute anything themselves.
+//! [`board`]) goes into the engine ([`analysis::analyse`], one [`analysis::Analysis`] per stage,
+//! for any drive kind of [`drive`] and load kind of [`load`]); [`pipeline::stage_report`] builds
+//! the stage's [`report::StageReport`] (remedy, yield, picture) from that one analysis; the
+//! renderers in [`report`] turn it into a table, JSON or Markdown and never compute anything
+//! themselves.
 //!
 //! No user input may panic the library: outside tests, `unwrap`, `expect`, `panic!` and
 //! unchecked indexing or string slicing are refused by the lints below.

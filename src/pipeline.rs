@@ -11,7 +11,7 @@ use crate::quantity::{celsius, format_engineering as fe, format_rkm, Base};
 use crate::remedy::{Bound, PartNeed};
 use crate::report::{
     num, sig, ChangeReport, CheckReport, ClampReport, ConditionsReport, FigureReport, FixReport,
-    NeedReport, RemedyReport, ResistorReport, Short, StageReport, Worsened, YieldReport,
+    NeedReport, NoYield, RemedyReport, ResistorReport, Short, StageReport, Worsened, YieldReport,
 };
 use crate::stage::Stage;
 
@@ -58,9 +58,10 @@ fn yield_of(
 ) -> YieldReport {
     match crate::analysis::yield_mc::run(stage, a, opts, progress) {
         Some(y) => YieldReport::Modelled(y),
-        None => YieldReport::NotModelled {
-            drive: stage.drive(),
-        },
+        None if stage.switch.yield_terms().is_none() => {
+            YieldReport::NotModelled(NoYield::Drive(stage.drive()))
+        }
+        None => YieldReport::NotModelled(NoYield::Load(stage.load_kind())),
     }
 }
 
@@ -114,13 +115,7 @@ pub fn build(index: usize, stage: &Stage, a: &Analysis, remedy: Option<&Remedy>)
         drive: kind.name,
         part: stage.part_id().to_string(),
         load_kind: stage.load_kind(),
-        series_keys: (
-            kind.series.key,
-            match kind.name {
-                "npn" => "base_resistor_sized",
-                _ => "gate_resistor_sized",
-            },
-        ),
+        series_keys: (kind.series.key, kind.series.sized_key),
         series_symbol: kind.series.symbol,
         series_ohms: num(a.drive.series.base()),
         series_sized: a.drive.series_sized,
@@ -402,5 +397,68 @@ fn conditions_report(c: &crate::conditions::Conditions, overdrive: bool) -> Cond
         overdrive: overdrive.then_some(c.overdrive),
         resistor_tolerance: c.resistor_tolerance,
         series: c.series.to_string(),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use std::sync::Arc;
+
+    use super::*;
+    use crate::conditions::Conditions;
+    use crate::load::{CurrentLaw, Load, LoadKind};
+    use crate::quantity::{Current, Resistance};
+
+    /// A relay coil that gives no current law, as a future load kind might.
+    #[derive(Debug)]
+    struct Lawless(crate::load::SharedLoad);
+
+    impl Load for Lawless {
+        fn kind(&self) -> &'static LoadKind {
+            self.0.kind()
+        }
+        fn current_max(&self, c: &Conditions, own: Option<Resistance>) -> Current {
+            self.0.current_max(c, own)
+        }
+        fn current_law(&self, _own: Option<Resistance>) -> Option<CurrentLaw> {
+            None
+        }
+    }
+
+    fn yield_of_stage(json: &str, lawless: bool) -> Option<YieldReport> {
+        let lib = crate::parts::Library::builtin().expect("shipped parts");
+        let board = crate::board::parse_board("t.json", json, &lib).expect("board");
+        let mut stage = board.stages.into_iter().next().expect("a stage");
+        if lawless {
+            stage.load = Arc::new(Lawless(stage.load.clone()));
+        }
+        let opts = Options {
+            yield_opts: Some(YieldOptions {
+                builds: 1000,
+                seed: 1,
+            }),
+            picture: false,
+        };
+        stage_report(1, &stage, &opts, &|_, _| {}).yield_mc
+    }
+
+    /// A stage without yield figures says why: its drive kind, or its load kind.
+    #[test]
+    fn a_missing_yield_names_what_is_missing() {
+        let relay = r#"{"stages": [{"name": "K1", "part": "demo-npn-40v", "supply_v": 12, "logic_high_v": 3.3,
+            "load": {"kind": "relay", "coil_ohms": 400}, "clamp": {"kind": "diode"}}]}"#;
+        assert!(matches!(
+            yield_of_stage(relay, false),
+            Some(YieldReport::Modelled(_))
+        ));
+        assert_eq!(
+            yield_of_stage(relay, true),
+            Some(YieldReport::NotModelled(NoYield::Load("relay")))
+        );
+        let fet = relay.replace("demo-npn-40v", "demo-nmos-40v");
+        assert_eq!(
+            yield_of_stage(&fet, false),
+            Some(YieldReport::NotModelled(NoYield::Drive("nmos")))
+        );
     }
 }

@@ -409,9 +409,16 @@ fn readme_opens_with_the_job_and_the_two_setup_commands() {
         commands,
         [
             "cargo run --release -- audit examples/greenhouse.json",
-            "cargo test"
+            "cargo test --locked"
         ],
         "exactly the two set-up commands"
+    );
+    // CI must run the README's test command itself, not a variant of it.
+    let ci = std::fs::read_to_string(".ci/run").expect(".ci/run");
+    assert!(
+        ci.lines().any(|l| l.trim() == commands[1]),
+        ".ci/run does not call the README's test command `{}`",
+        commands[1]
     );
     for phrase in [
         "**Caution.**",

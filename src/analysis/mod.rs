@@ -201,7 +201,7 @@ fn cautions(stage: &Stage, corner: &Corner) -> Vec<Why> {
     if vcc_max > ELV_LIMIT_V {
         out.push(why(Caution::AboveElv { vcc_max }));
     }
-    if stage.load.kind().name == "relay" {
+    if stage.load.works_contacts() {
         out.push(why(Caution::CoilSideOnly));
     }
     if let PartSource::Builtin(_) = stage.switch.info().source {

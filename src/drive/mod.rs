@@ -54,6 +54,8 @@ pub struct ResistorRole {
     pub role: &'static str,
     /// Board key (`base_resistor_ohms`).
     pub key: &'static str,
+    /// Report key that says it was sized (`base_resistor_sized`).
+    pub sized_key: &'static str,
     /// Flag (`--base-resistor`).
     pub flag: &'static str,
 }
@@ -210,7 +212,8 @@ pub trait Switch: Send + Sync + fmt::Debug {
         currents: &[(f64, f64)],
     ) -> Result<Picture, String>;
 
-    /// The yield draws of this kind: `None` when its yield is not modelled.
+    /// What the yield model of this kind reads (the part record it draws builds from): `None`
+    /// when its yield is not modelled.
     fn yield_terms(&self) -> Option<&dyn Any> {
         None
     }

@@ -219,6 +219,12 @@ pub trait Load: Send + Sync + fmt::Debug {
     /// The registration of its kind.
     fn kind(&self) -> &'static LoadKind;
 
+    /// True when it works contacts the model does not see (a relay's): the report then cautions
+    /// that only the coil side is checked.
+    fn works_contacts(&self) -> bool {
+        false
+    }
+
     /// What it stores at turn-off, for loads that kick back (relay, motor); `None` otherwise.
     fn kick(&self, _conditions: &Conditions) -> Option<Kick> {
         None

@@ -183,6 +183,10 @@ impl Load for Relay {
         &KIND
     }
 
+    fn works_contacts(&self) -> bool {
+        true
+    }
+
     fn kick(&self, c: &Conditions) -> Option<Kick> {
         Some(Kick {
             inductance: self.inductance,

@@ -17,8 +17,8 @@ pub use json::JsonRenderer;
 pub use markdown::MarkdownRenderer;
 pub use model::{
     num, rounded_need, sig, ChangeReport, CheckReport, ClampReport, ConditionsReport, FigureReport,
-    FixReport, NeedReport, RemedyReport, ResistorReport, Short, StageReport, Worsened, YieldReport,
-    GENERAL_CAUTION, MODEL_VERSION,
+    FixReport, NeedReport, NoYield, RemedyReport, ResistorReport, Short, StageReport, Worsened,
+    YieldReport, GENERAL_CAUTION, MODEL_VERSION,
 };
 pub use stream::{render_report, write_report, Head, Renderer, Report, SummaryRow, Tail};
 pub use table::TableRenderer;

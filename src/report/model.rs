@@ -194,24 +194,42 @@ pub struct RemedyReport {
 pub enum YieldReport {
     /// The Monte Carlo figures.
     Modelled(YieldResult),
-    /// The drive kind has no yield model yet.
-    NotModelled {
-        /// The drive kind.
-        drive: &'static str,
-    },
+    /// The stage has no yield model yet.
+    NotModelled(NoYield),
+}
+
+/// Why a stage has no yield figures.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum NoYield {
+    /// Its drive kind has no yield model (the drive kind).
+    Drive(&'static str),
+    /// Its load kind gives no current law (the load kind).
+    Load(&'static str),
+}
+
+impl NoYield {
+    /// What is missing, in words (`not modelled for nmos stages yet`).
+    pub fn phrase(self) -> String {
+        match self {
+            NoYield::Drive(drive) => format!("not modelled for {drive} stages yet"),
+            NoYield::Load(load) => format!("not modelled for {load} loads yet"),
+        }
+    }
+
+    /// The reason of the JSON report (`the yield is not modelled for nmos stages yet`).
+    pub fn reason(self) -> String {
+        format!("the yield is {}", self.phrase())
+    }
 }
 
 impl Serialize for YieldReport {
     fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
         match self {
             YieldReport::Modelled(y) => y.serialize(s),
-            YieldReport::NotModelled { drive } => {
+            YieldReport::NotModelled(why) => {
                 let mut m = s.serialize_map(Some(2))?;
                 m.serialize_entry("modelled", &false)?;
-                m.serialize_entry(
-                    "reason",
-                    &format!("the yield is not modelled for {drive} stages yet"),
-                )?;
+                m.serialize_entry("reason", &why.reason())?;
                 m.end()
             }
         }

@@ -319,8 +319,9 @@ fn stage_into(out: &mut Vec<Block>, s: &StageReport) {
     });
     match &s.yield_mc {
         Some(YieldReport::Modelled(y)) => yield_blocks(out, y),
-        Some(YieldReport::NotModelled { drive }) => out.push(Block::Line(format!(
-            "Yield: not modelled for {drive} stages yet; the worst case above stands alone."
+        Some(YieldReport::NotModelled(why)) => out.push(Block::Line(format!(
+            "Yield: {}; the worst case above stands alone.",
+            why.phrase()
         ))),
         None => {}
     }

@@ -158,7 +158,7 @@ impl<'a> YieldStage<'a> {
     /// The yield inputs of an analysed stage; `None` unless its drive is an NPN transistor and
     /// its load has a current law.
     pub fn of(stage: &'a Stage, analysis: &'a Analysis) -> Option<YieldStage<'a>> {
-        let part = stage.switch.as_any().downcast_ref::<NpnPart>()?;
+        let part = stage.switch.yield_terms()?.downcast_ref::<NpnPart>()?;
         let worst = detail(&analysis.drive)?.worst;
         Some(YieldStage {
             conditions: &stage.conditions,

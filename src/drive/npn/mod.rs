@@ -39,12 +39,14 @@ pub static KIND: DriveKind = DriveKind {
         symbol: "RB",
         role: "base",
         key: "base_resistor_ohms",
+        sized_key: "base_resistor_sized",
         flag: "--base-resistor",
     },
     pull_down: ResistorRole {
         symbol: "RBE",
         role: "pull-down",
         key: "pull_down_ohms",
+        sized_key: "pull_down_sized",
         flag: "--pull-down",
     },
     stage_keys: &["overdrive"],
@@ -351,6 +353,11 @@ impl Switch for NpnPart {
         currents: &[(f64, f64)],
     ) -> Result<Picture, String> {
         picture::picture(self, c, corner, a, currents)
+    }
+
+    fn yield_terms(&self) -> Option<&dyn Any> {
+        // The yield model reads the part's own figures (analysis::yield_mc::YieldStage).
+        Some(self)
     }
 
     fn as_any(&self) -> &dyn Any {
