@@ -48,10 +48,11 @@
 //!    and ID,max is within the point's test current, the simulated drain voltage cannot exceed
 //!    Von,max: asserted within 3 %. This is a genuine check of the point the engine picks and of
 //!    its cold correction VGS,eff; the simulated drain falls below Von,max by as much as the
-//!    drive exceeds the point (the engine never interpolates upward). Where no point lies at or
-//!    below VGS,eff the engine may still pass (stage-model 8 passes a drive VGS,min that reaches
-//!    the lowest point's 25 C gate voltage); it must then say that the figure is not
-//!    guaranteed, and the test counts how often the square-law channel exceeds Von,max there.
+//!    drive exceeds the point (the engine never interpolates upward). The same is simulated for
+//!    the stages whose VGS,min reaches the lowest point's 25 C gate voltage while VGS,eff does
+//!    not: read literally, stage-model 8 would pass them; the square-law channel exceeds
+//!    Von,max at many of them and saturates at some (counted), so pinlow holds pinned-low to
+//!    marginal there and says the figure is not guaranteed (asserted).
 //! 3. `below_one_and_a_half_thresholds_the_switch_is_not_pinned` (stages whose VGS,min is below
 //!    1.5 x VGS(th),max cold). Channel fitted as in 2 at the part's lowest point, with RDS(on)
 //!    at the junction the engine would settle at if the stage were ohmic. The load is a
@@ -64,9 +65,10 @@
 //!    find it ohmic. Asserted, for the stages below the lowest point (the engine must fail
 //!    them): a load above the point's test current leaves the channel out of the ohmic region;
 //!    a lighter load that finds it ohmic sees a drop above ID x RDS(on) of the point (not the
-//!    on-state the figure promises). For the stages at or above the lowest point the engine
-//!    passes on the figure: with the point at or below VGS,eff the channel is ohmic; above it
-//!    the engine must say the figure is not guaranteed (counted how often ngspice saturates).
+//!    on-state the figure promises). For the stages at or above the lowest point: with the
+//!    point at or below VGS,eff the engine passes and the channel is ohmic; with VGS,min at or
+//!    above the point but VGS,eff below it the engine gives marginal and says the figure is
+//!    not guaranteed (asserted; counted how often ngspice leaves the ohmic region there).
 //!
 //! A point that lies at or beyond the saturation edge of a channel at the maximum threshold
 //! (BSS123's 4.5 V point: 170 mA x 10 ohm = 1.7 V against 4.5 - 2.8 V, before any heating)
@@ -364,7 +366,19 @@ fn spec_point_model_bounds_the_on_voltage() {
         return;
     }
     let stages = generated_stages();
-    let cases = passing(&stages);
+    // The passes, then the stages that reach the lowest point at VGS,min but not at VGS,eff
+    // (the ones a literal VGS,min reading of stage-model 8 would pass; the engine reads the
+    // points at VGS,eff and does not), with the junction settled.
+    let gap: Vec<&(Stage, Analysis)> = stages
+        .iter()
+        .filter(|(_, a)| {
+            let w = worst(a);
+            w.lowest_vgs <= w.vgs_min
+                && !w.point_qualifies
+                && matches!(w.junction, Junction::Settled { .. })
+        })
+        .collect();
+    let cases: Vec<&(Stage, Analysis)> = passing(&stages).into_iter().chain(gap).collect();
     eprintln!(
         "{:<46} {:>6} {:>8} {:>8} {:>10} {:>10} {:>9}",
         "stage", "point", "VGS,min", "VGS,eff", "Von eng", "VDS spice", "VDS/Von"
@@ -416,7 +430,9 @@ fn spec_point_model_bounds_the_on_voltage() {
             vd,
             ratio
         );
+        let (status, sentence) = pinned_low(a);
         if w.point_qualifies {
+            assert_eq!(status, Status::Pass, "{}: {sentence}", s.name);
             // The figure holds at the drive: the square-law channel stays within Von,max
             // [ngspice; text: the level-1 chord resistance falls with the overdrive].
             bounded += 1;
@@ -430,9 +446,10 @@ fn spec_point_model_bounds_the_on_voltage() {
                 w.vgs_eff.base()
             );
         } else {
-            // The engine passes with a point above VGS,eff: it must say so.
+            // No point at or below VGS,eff: the figure is not guaranteed at this drive, and the
+            // engine does not pass the stage (at most marginal, by the 1.5 x threshold rule).
             flagged += 1;
-            let (_, sentence) = pinned_low(a);
+            assert_ne!(status, Status::Pass, "{}: {sentence}", s.name);
             assert!(
                 sentence.contains("not guaranteed"),
                 "{}: point above VGS,eff, but pinned-low says: {sentence}",
@@ -448,9 +465,9 @@ fn spec_point_model_bounds_the_on_voltage() {
     }
     eprintln!(
         "{bounded} stages with the point at or below VGS,eff (largest VDS/Von,max {largest_bounded:.4}); \
-         {flagged} passes with the point above VGS,eff, {exceeded} of them above Von,max + 3 % in \
-         the simulation, {saturated} saturated; {no_fit} left out (point outside the triode \
-         region)"
+         {flagged} stages reaching the lowest point at VGS,min but not at VGS,eff (not passed), \
+         {exceeded} of them above Von,max + 3 % in the simulation, {saturated} saturated; \
+         {no_fit} left out (point outside the triode region)"
     );
     assert!(
         bounded >= 60,
@@ -460,9 +477,12 @@ fn spec_point_model_bounds_the_on_voltage() {
         flagged >= 10,
         "only {flagged} stages with a point above VGS,eff"
     );
+    // Most points must be fittable or the bound above checks little (BSS123's 4.5 V point and
+    // hot, heavy corners of the stages between the two readings cannot be).
     assert!(
-        no_fit <= cases.len() / 10,
-        "{no_fit} points could not be fitted"
+        no_fit * 5 <= cases.len(),
+        "{no_fit} of {} points could not be fitted",
+        cases.len()
     );
 }
 
@@ -593,25 +613,24 @@ fn below_one_and_a_half_thresholds_the_switch_is_not_pinned() {
                     i_sim * r
                 );
             }
-        } else if status == Status::Pass {
-            // Below 1.5 x the cold threshold but at or above the lowest point at 25 C:
-            // stage-model 8 passes on the datasheet figure.
-            if w.point_qualifies {
-                // The point holds at VGS,eff too: the channel is ohmic [ngspice].
-                pass_ok += 1;
-                assert_eq!(*reg, Region::Ohmic, "{}: VDS {vd} V", s.name);
-            } else {
-                // Not at VGS,eff: the engine must say the figure is not guaranteed.
-                pass_flagged += 1;
-                assert!(
-                    sentence.contains("not guaranteed"),
-                    "{}: {sentence}",
-                    s.name
-                );
-                if *reg != Region::Ohmic {
-                    pass_sat += 1;
-                }
+        } else if !w.point_qualifies {
+            // Reaches the lowest point at VGS,min but not at VGS,eff (the drive less the cold
+            // threshold rise): the figure is not guaranteed, and the engine does not pass it.
+            pass_flagged += 1;
+            assert_eq!(status, Status::Marginal, "{}: {sentence}", s.name);
+            assert!(
+                sentence.contains("not guaranteed"),
+                "{}: {sentence}",
+                s.name
+            );
+            if *reg != Region::Ohmic {
+                pass_sat += 1;
             }
+        } else if status == Status::Pass {
+            // Below 1.5 x the cold threshold but with a point at or below VGS,eff: the engine
+            // passes on the datasheet figure, and the channel is ohmic [ngspice].
+            pass_ok += 1;
+            assert_eq!(*reg, Region::Ohmic, "{}: VDS {vd} V", s.name);
         }
     }
     eprintln!(
@@ -619,9 +638,9 @@ fn below_one_and_a_half_thresholds_the_switch_is_not_pinned() {
          the triode region): \
          {fail} fail pinned-low, {out} of them out of the ohmic region in ngspice; {heavy} with \
          the load above the point's test current, all out; {light} lighter loads still ohmic with \
-         a drop above the figure's. Passes on a point reached at 25 C: {pass_ok} with the point \
-         at or below VGS,eff (ohmic), {pass_flagged} above it (flagged), {pass_sat} of these out \
-         of the ohmic region in ngspice",
+         a drop above the figure's. {pass_flagged} stages reach the lowest point at VGS,min but not \
+         at VGS,eff (marginal, flagged), {pass_sat} of these out of the ohmic region in ngspice. \
+         Passes: {pass_ok}, with the point at or below VGS,eff (ohmic)",
         rows.len()
     );
     assert!(fail >= 100, "only {fail} failing stages");
@@ -633,5 +652,8 @@ fn below_one_and_a_half_thresholds_the_switch_is_not_pinned() {
         out * 10 >= fail * 9,
         "{out} of {fail} out of the ohmic region"
     );
-    assert!(pass_flagged >= 5, "only {pass_flagged} flagged passes");
+    assert!(
+        pass_flagged >= 5,
+        "only {pass_flagged} stages between the two readings"
+    );
 }

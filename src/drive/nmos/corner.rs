@@ -355,4 +355,50 @@ mod tests {
         assert_relative_eq!(v.base() - eff.base(), 0.225, max_relative = 1e-9);
         assert_eq!(p.point_for(eff).0.vgs.base(), 2.5);
     }
+
+    /// Stage-model 8 reads the RDS(on) point at VGS,eff (the drive less the cold threshold
+    /// rise) and calls the figure not guaranteed when no point lies there; pinlow then holds
+    /// pinned-low to marginal, as for a point's test current (docs/model.md, readings).
+    #[test]
+    fn a_point_reached_only_before_the_cold_rise_is_marginal() {
+        use crate::check::Status;
+        let v: serde_json::Value = serde_json::from_str(
+            r#"{"id": "m2", "polarity": "nmos", "package": "SOT-23", "provenance": "test",
+            "vds_max_v": 20, "id_max_a": 3, "vgs_max_v": 12, "vgs_th": {"min_v": 0.6, "max_v": 1.4},
+            "rds_on_max": [{"vgs_v": 2.5, "ohms": 0.07}, {"vgs_v": 4.5, "ohms": 0.05}],
+            "tj_max_c": 150, "r_th_ja_k_per_w": 250}"#,
+        )
+        .expect("json");
+        let p =
+            NmosPart::from_value(&v, "m2.json", PartSource::File("m2.json".into())).expect("valid");
+        let corner = Corner {
+            vcc_max: volts(12.6),
+            vcc_min: volts(11.4),
+            current_max: amps(0.5),
+            linear_fraction: 1.0,
+            peak: None,
+            inductive: false,
+        };
+        let mut c = conditions();
+        c.logic_high_min = volts(2.6);
+        c.inputs.pull_down = PullDown::None;
+        let at = |c: &Conditions| {
+            let w = NmosWorst::of(&p, c, &corner, ohms(470.0), None);
+            (w, super::super::checks::pinned_low(&w))
+        };
+        // -20 C: VGS,eff = 2.6 - 0.005 x 45 = 2.375 V, below the 2.5 V point.
+        let (w, f) = at(&c);
+        assert!(!w.point_qualifies);
+        assert_eq!(f.status, Status::Marginal);
+        assert!(
+            f.why.sentence().contains("not guaranteed"),
+            "{}",
+            f.why.sentence()
+        );
+        // At 25 C there is no rise: the point qualifies and the stage passes.
+        c.ambient_min = celsius(25.0);
+        let (w, f) = at(&c);
+        assert!(w.point_qualifies);
+        assert_eq!(f.status, Status::Pass, "{}", f.why.sentence());
+    }
 }

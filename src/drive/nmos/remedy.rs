@@ -55,7 +55,10 @@ pub fn remedies(
         }
     }
     if let Some(f) = short(PINNED_LOW) {
-        let target = w.lowest_vgs.base();
+        // The gate voltage that brings VGS,eff (the drive less the cold threshold rise) to the
+        // lowest specified point.
+        let rise = (w.vgs_min - w.vgs_eff).base();
+        let target = w.lowest_vgs.base() + rise;
         let weakest = c.logic_high_min.base();
         // A divider that takes the drive below the lowest specified point while the pin alone
         // would reach it: a larger pull-down, within the leakage limit.
@@ -82,7 +85,7 @@ pub fn remedies(
                 let mut needs = vec![PartNeed {
                     figure: "rds_on_max.vgs_v",
                     bound: Bound::AtMost,
-                    value: w.vgs_min.base(),
+                    value: w.vgs_eff.base(),
                     unit: "V",
                     at: None,
                 }];
@@ -104,14 +107,15 @@ pub fn remedies(
                         bound: Bound::AtLeast,
                         value: w.id_max.base(),
                         unit: "A",
-                        at: Some(("vgs_v", w.vgs_min.base())),
+                        at: Some(("vgs_v", w.vgs_eff.base())),
                     });
                 }
                 out.push(Proposal::part(
                     PINNED_LOW,
                     needs,
                     why(Words::LogicLevel {
-                        vgs_min: w.vgs_min.base(),
+                        vgs_eff: w.vgs_eff.base(),
+                        rise,
                         current: load.current_max.base(),
                     }),
                 ));
@@ -146,11 +150,25 @@ fn leakage_limit(part: &NmosPart, c: &Conditions, w: &NmosWorst) -> f64 {
 
 #[derive(Debug)]
 enum Words {
-    ResizeGate { series: &'static str },
-    PullDown { value: f64, had: Option<f64> },
-    LargerPullDown { value: f64, vgs: f64 },
-    LogicLevel { vgs_min: f64, current: f64 },
-    GateRating { needed: f64 },
+    ResizeGate {
+        series: &'static str,
+    },
+    PullDown {
+        value: f64,
+        had: Option<f64>,
+    },
+    LargerPullDown {
+        value: f64,
+        vgs: f64,
+    },
+    LogicLevel {
+        vgs_eff: f64,
+        rise: f64,
+        current: f64,
+    },
+    GateRating {
+        needed: f64,
+    },
 }
 
 impl Explain for Words {
@@ -172,9 +190,18 @@ impl Explain for Words {
                 format_rkm(*value),
                 fe(*vgs, "V")
             ),
-            Words::LogicLevel { vgs_min, current } => format!(
-                "use a MOSFET whose RDS(on) is specified at {} or less (the gate voltage the pin guarantees) for {}; a part specified only at 4.5 V or 10 V is not logic-level for this pin",
-                fe(*vgs_min, "V"),
+            Words::LogicLevel {
+                vgs_eff,
+                rise,
+                current,
+            } => format!(
+                "use a MOSFET whose RDS(on) is specified at {} or less (the gate voltage the pin guarantees{}) for {}; a part specified only at 4.5 V or 10 V is not logic-level for this pin",
+                fe(*vgs_eff, "V"),
+                if *rise > 0.0 {
+                    format!(", less the threshold's {} rise in the cold", fe(*rise, "V"))
+                } else {
+                    String::new()
+                },
                 fe(*current, "A")
             ),
             Words::GateRating { needed } => format!(
