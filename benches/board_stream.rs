@@ -8,6 +8,8 @@
 //! - binary: the release `pinlow audit BOARD --format F` with standard output to /dev/null, wall
 //!   time of the whole process and its peak resident memory (from /usr/bin/time when present).
 //!
+//! `-- N --write PATH` only writes the generated board of N stages (to profile the binary on it).
+//!
 //! Each is run three times and the best is kept; stages per second and each format's time over
 //! the JSON time are printed, with the load average before and after.
 
@@ -86,6 +88,13 @@ fn main() -> Result<(), String> {
         .skip(1)
         .find_map(|a| a.parse().ok())
         .unwrap_or(20_000);
+    if let Some(at) = args.iter().position(|a| a == "--write") {
+        // Only write the generated board (for a profiler run of the binary on it).
+        let path = args.get(at + 1).ok_or("--write PATH")?;
+        std::fs::write(path, board_json(n, false)).map_err(|e| e.to_string())?;
+        println!("wrote {n} stages to {path}");
+        return Ok(());
+    }
     let dir = std::env::temp_dir().join(format!("pinlow-bench-stream-{}", std::process::id()));
     std::fs::create_dir_all(&dir).map_err(|e| e.to_string())?;
     let path = dir.join("board.json");

@@ -87,55 +87,93 @@ pub fn markdown_link_text(text: &str) -> String {
 
 fn markdown_inline(text: &str, all_brackets: bool) -> String {
     let mut out = String::with_capacity(text.len() + 8);
-    // Runs of characters that need nothing are copied whole; only a byte that can start a
+    markdown_inline_into(&mut out, text, all_brackets);
+    out
+}
+
+/// [`markdown_text`] appended to `out` (the renderer's buffer), without a string of its own.
+pub fn markdown_text_into(out: &mut String, text: &str) {
+    markdown_inline_into(out, text, false);
+}
+
+fn markdown_inline_into(out: &mut String, text: &str, all_brackets: bool) {
+    // Runs of characters that need nothing are copied whole: a byte that cannot start a
     // character needing an escape (an ASCII mark, a control, or the lead byte of a C1 or bidi
-    // control) is looked at (those are never UTF-8 continuation bytes).
+    // control; those are never UTF-8 continuation bytes) continues the run, and so does a mark
+    // whose context asks for nothing (a `.` not after `www`, a `:` not before `//`). The run is
+    // flushed only where an escape is written.
+    let bytes = text.as_bytes();
     let mut copied = 0usize;
     let mut after_bracket = false;
-    for (here, b) in text.bytes().enumerate() {
-        if here < copied || !may_need_markdown_escape(b) {
-            if here >= copied {
-                after_bracket = false;
-            }
+    let mut here = 0usize;
+    while let Some(&b) = bytes.get(here) {
+        if !may_need_markdown_escape(b) {
+            after_bracket = false;
+            here += 1;
             continue;
         }
-        let Some(c) = text.get(here..).and_then(|rest| rest.chars().next()) else {
-            continue;
+        let was_after_bracket = after_bracket;
+        after_bracket = b == b']';
+        let escape = if b.is_ascii() {
+            match b {
+                _ if is_unsafe_char(char::from(b)) => Escape::Shown(char::from(b), 1),
+                b'<' => Escape::Text("&lt;"),
+                b'&' => Escape::Text("&amp;"),
+                b'\\' | b'`' | b'*' | b'_' | b'~' | b'!' | b'|' | b'#' => Escape::Backslash(b),
+                b'[' | b']' if all_brackets => Escape::Backslash(b),
+                b'(' | b'[' | b':' if was_after_bracket => Escape::Backslash(b),
+                b':' if bytes.get(here + 1..here + 3) == Some(b"//".as_slice()) => {
+                    Escape::Text("\\:")
+                }
+                b'.' if here >= 3
+                    && bytes
+                        .get(here - 3..here)
+                        .is_some_and(|w| w.eq_ignore_ascii_case(b"www")) =>
+                {
+                    Escape::Text("&#46;")
+                }
+                _ => Escape::None,
+            }
+        } else {
+            match text.get(here..).and_then(|rest| rest.chars().next()) {
+                Some(c) if is_unsafe_char(c) => Escape::Shown(c, c.len_utf8()),
+                _ => Escape::None,
+            }
+        };
+        let width = match escape {
+            Escape::None => {
+                here += 1;
+                continue;
+            }
+            Escape::Shown(_, w) => w,
+            _ => 1,
         };
         out.push_str(text.get(copied..here).unwrap_or_default());
-        let at = here + c.len_utf8();
-        copied = at;
-        match c {
-            c if is_unsafe_char(c) => push_escaped(&mut out, c),
-            '<' => out.push_str("&lt;"),
-            '&' => out.push_str("&amp;"),
-            '\\' | '`' | '*' | '_' | '~' | '!' | '|' | '#' => {
+        match escape {
+            Escape::Shown(c, _) => push_escaped(out, c),
+            Escape::Text(t) => out.push_str(t),
+            Escape::Backslash(b) => {
                 out.push('\\');
-                out.push(c);
+                out.push(char::from(b));
             }
-            '[' | ']' if all_brackets => {
-                out.push('\\');
-                out.push(c);
-            }
-            '(' | '[' | ':' if after_bracket => {
-                out.push('\\');
-                out.push(c);
-            }
-            ':' if text.get(at..).is_some_and(|rest| rest.starts_with("//")) => {
-                out.push_str("\\:");
-            }
-            '.' if text
-                .get(here.saturating_sub(3)..here)
-                .is_some_and(|w| w.eq_ignore_ascii_case("www")) =>
-            {
-                out.push_str("&#46;");
-            }
-            c => out.push(c),
+            Escape::None => {}
         }
-        after_bracket = c == ']';
+        here += width;
+        copied = here;
     }
     out.push_str(text.get(copied..).unwrap_or_default());
-    out
+}
+
+/// What [`markdown_inline_into`] writes for one character.
+enum Escape {
+    /// Nothing: the character continues the run.
+    None,
+    /// The character shown escaped (`\u{1b}`), with its width in bytes.
+    Shown(char, usize),
+    /// A replacement (an entity, a broken-up autolink).
+    Text(&'static str),
+    /// The ASCII mark after a backslash.
+    Backslash(u8),
 }
 
 /// True for a byte that can start a character [`markdown_inline`] may escape.
@@ -169,20 +207,27 @@ fn may_need_markdown_escape(b: u8) -> bool {
 /// or an indented code block [std: CommonMark 0.31, sections 4 and 5]. (`#`, `*`, `_` and `|`
 /// are already escaped everywhere.)
 pub fn markdown_line(text: &str) -> String {
-    let inline = markdown_text(text);
+    let mut out = String::with_capacity(text.len() + 8);
+    markdown_line_into(&mut out, text);
+    out
+}
+
+/// [`markdown_line`] appended to `out` (the renderer's buffer).
+pub fn markdown_line_into(out: &mut String, text: &str) {
+    let start = out.len();
+    markdown_inline_into(out, text, false);
+    let inline = out.get(start..).unwrap_or_default();
     let digits = inline.bytes().take_while(u8::is_ascii_digit).count();
-    match inline.split_at_checked(digits) {
-        Some((number, rest)) if digits > 0 && (rest.starts_with('.') || rest.starts_with(')')) => {
-            format!("{number}\\{rest}")
-        }
-        _ if inline.starts_with(['-', '+', '=', '[']) => format!("\\{inline}"),
-        _ => match inline.strip_prefix('>') {
-            Some(rest) => format!("&gt;{rest}"),
-            None => match inline.strip_prefix(' ') {
-                Some(rest) => format!("&#32;{rest}"),
-                None => inline,
-            },
-        },
+    let after = inline.as_bytes().get(digits).copied();
+    if digits > 0 && matches!(after, Some(b'.' | b')')) {
+        // The digits are ASCII: `start + digits` is a character boundary.
+        out.insert(start + digits, '\\');
+    } else if inline.starts_with(['-', '+', '=', '[']) {
+        out.insert(start, '\\');
+    } else if inline.starts_with('>') {
+        out.replace_range(start..start + 1, "&gt;");
+    } else if inline.starts_with(' ') {
+        out.replace_range(start..start + 1, "&#32;");
     }
 }
 
@@ -415,6 +460,32 @@ mod tests {
             all in any::<bool>(),
         ) {
             prop_assert_eq!(markdown_inline(&text, all), inline_by_chars(&text, all));
+        }
+
+        /// The in-place line start gives what the block-marker rules give on a fresh string.
+        #[test]
+        fn markdown_lines_neutralise_as_the_rules_say(
+            text in "([0-9]|[-+=\\[> .)a#]|www)*",
+        ) {
+            prop_assert_eq!(markdown_line(&text), line_by_rules(&text));
+        }
+    }
+
+    /// The block-marker rules of [`markdown_line`] on the escaped text, the plain way.
+    fn line_by_rules(text: &str) -> String {
+        let inline = inline_by_chars(text, false);
+        let digits = inline.bytes().take_while(u8::is_ascii_digit).count();
+        let (number, rest) = inline.split_at(digits);
+        if digits > 0 && (rest.starts_with('.') || rest.starts_with(')')) {
+            format!("{number}\\{rest}")
+        } else if inline.starts_with(['-', '+', '=', '[']) {
+            format!("\\{inline}")
+        } else if let Some(rest) = inline.strip_prefix('>') {
+            format!("&gt;{rest}")
+        } else if let Some(rest) = inline.strip_prefix(' ') {
+            format!("&#32;{rest}")
+        } else {
+            inline
         }
     }
 

@@ -2,7 +2,7 @@
 //! Every text passes through [`escape`], [`markdown_line`] or [`markdown_link_text`], so names
 //! render as literal text, never as HTML, links or formatting.
 
-use super::escape::{markdown_line, markdown_link_text, markdown_text as escape};
+use super::escape::{markdown_line_into, markdown_link_text, markdown_text_into as escape_into};
 use super::model::StageReport;
 use super::rows::{head_blocks, stage_blocks, tail_blocks, Block};
 use super::stream::{Head, Renderer, Tail};
@@ -52,63 +52,79 @@ impl Renderer for MarkdownRenderer {
     }
 }
 
+/// Draws blocks into `out`, every text escaped straight into it (no string of its own per cell).
 pub(super) fn draw(blocks: Vec<Block>, mut out: String) -> String {
-    {
-        for block in blocks {
-            match block {
-                Block::Heading(level, text) => {
-                    out.push_str(&"#".repeat(usize::from(level)));
+    for block in blocks {
+        match block {
+            Block::Heading(level, text) => {
+                for _ in 0..level {
+                    out.push('#');
+                }
+                out.push(' ');
+                escape_into(&mut out, &text);
+                out.push_str("\n\n");
+            }
+            Block::Table { headers, rows } => {
+                out.push('|');
+                for h in &headers {
                     out.push(' ');
-                    out.push_str(&escape(&text));
-                    out.push_str("\n\n");
+                    escape_into(&mut out, h);
+                    out.push_str(" |");
                 }
-                Block::Table { headers, rows } => {
-                    out.push_str(&format!(
-                        "| {} |\n",
-                        headers
-                            .iter()
-                            .map(|h| escape(h))
-                            .collect::<Vec<_>>()
-                            .join(" | ")
-                    ));
-                    out.push_str(&format!("|{}\n", " --- |".repeat(headers.len())));
-                    for row in rows {
-                        let cells: Vec<String> = row
-                            .iter()
-                            .map(|c| match c.status {
-                                // Bold draws the eye to what is not a pass only.
-                                Some(st) if st != crate::check::Status::Pass => {
-                                    format!("**{}**", escape(&c.text))
-                                }
-                                _ => escape(&c.text),
-                            })
-                            .collect();
-                        out.push_str(&format!("| {} |\n", cells.join(" | ")));
+                out.push_str("\n|");
+                for _ in &headers {
+                    out.push_str(" --- |");
+                }
+                out.push('\n');
+                for row in rows {
+                    out.push('|');
+                    for c in &row {
+                        out.push(' ');
+                        // Bold draws the eye to what is not a pass only.
+                        let bold = c.status.is_some_and(|st| st != crate::check::Status::Pass);
+                        if bold {
+                            out.push_str("**");
+                        }
+                        escape_into(&mut out, &c.text);
+                        if bold {
+                            out.push_str("**");
+                        }
+                        out.push_str(" |");
                     }
                     out.push('\n');
                 }
-                Block::List(title, items) => {
-                    out.push_str(&format!("**{}**\n\n", escape(&title)));
-                    for item in items {
-                        out.push_str(&format!("- {}\n", markdown_line(&item)));
-                    }
+                out.push('\n');
+            }
+            Block::List(title, items) => {
+                out.push_str("**");
+                escape_into(&mut out, &title);
+                out.push_str("**\n\n");
+                for item in items {
+                    out.push_str("- ");
+                    markdown_line_into(&mut out, &item);
                     out.push('\n');
                 }
-                Block::Line(text) => {
-                    out.push_str(&markdown_line(&text));
-                    out.push_str("\n\n");
-                }
-                Block::Image(alt, path) => {
-                    let (alt, dest) = (markdown_link_text(&alt), destination(&path));
-                    out.push_str(&format!("![{alt}]({dest})\n\n"));
-                }
-                Block::Verdict(text, _) => {
-                    out.push_str(&format!("**{}**\n\n", escape(&text)));
-                }
+                out.push('\n');
+            }
+            Block::Line(text) => {
+                markdown_line_into(&mut out, &text);
+                out.push_str("\n\n");
+            }
+            Block::Image(alt, path) => {
+                out.push_str("![");
+                out.push_str(&markdown_link_text(&alt));
+                out.push_str("](");
+                out.push_str(&destination(&path));
+                out.push_str(")\n\n");
+            }
+            Block::Verdict(text, _) => {
+                out.push_str("**");
+                escape_into(&mut out, &text);
+                out.push_str("**\n\n");
             }
         }
-        out
     }
+    out
 }
 
 #[cfg(test)]
