@@ -246,7 +246,7 @@ impl Explain for StaysOff {
                         fe(*volts, "V")
                     ),
                     Status::Fail => format!(
-                        "hot leakage through {through} puts {} on the base, above {threshold}: the stage can turn itself on",
+                        "hot leakage through {through} would raise the base to {} (leakage x resistance), above {threshold}: the base conducts well before that, so the stage can turn itself on",
                         fe(*volts, "V")
                     ),
                 }
