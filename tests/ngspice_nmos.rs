@@ -202,6 +202,28 @@ fn model_line(vto: f64, kp: f64) -> String {
     )
 }
 
+/// The operating point (drain, gate) of the invented channel driven by the stage's gate network
+/// with `load` (netlist lines) on its drain.
+fn drain_op(title: &str, s: &Stage, w: &NmosWorst, load: &str, vto: f64, kp: f64) -> (f64, f64) {
+    let netlist = format!(
+        "* pinlow: {title}\n\
+         .options TEMP={T_REF_C} TNOM={T_REF_C}\n\
+         {gate}\
+         {load}\
+         M1 d g 0 0 NWC W=1u L=1u\n\
+         {model}\
+         .control\n\
+         op\n\
+         print v(d) v(g)\n\
+         .endc\n\
+         .end\n",
+        gate = gate_lines(s, w),
+        model = model_line(vto, kp),
+    );
+    let v = ngspice::run(&netlist, &["v(d)", "v(g)"]);
+    (v["v(d)"], v["v(g)"])
+}
+
 fn skip() -> bool {
     if ngspice::skip_requested() {
         eprintln!("{} = 1: ngspice cross-check skipped", ngspice::SKIP_VAR);
@@ -397,24 +419,17 @@ fn spec_point_model_bounds_the_on_voltage() {
             no_fit += 1;
             continue;
         };
-        let netlist = format!(
-            "* pinlow: the RDS(on) point of `{name}` driven by its gate network\n\
-             .options TEMP={T_REF_C} TNOM={T_REF_C}\n\
-             {gate}\
-             ILOAD 0 d DC {id:e}\n\
-             M1 d g 0 0 NWC W=1u L=1u\n\
-             {model}\
-             .control\n\
-             op\n\
-             print v(d) v(g)\n\
-             .endc\n\
-             .end\n",
-            name = s.name,
-            gate = gate_lines(s, w),
-            model = model_line(w.th_max_cold.base(), kp),
+        let (vd, vg) = drain_op(
+            &format!(
+                "the RDS(on) point of `{}` driven by its gate network",
+                s.name
+            ),
+            s,
+            w,
+            &format!("ILOAD 0 d DC {id:e}\n"),
+            w.th_max_cold.base(),
+            kp,
         );
-        let v = ngspice::run(&netlist, &["v(d)", "v(g)"]);
-        let (vd, vg) = (v["v(d)"], v["v(g)"]);
         let ratio = vd / von;
         eprintln!(
             "{:<46} {:>6} {:>8.4} {:>8.4} {:>10.5} {:>10.4e} {:>9.4}",
@@ -533,26 +548,14 @@ fn below_one_and_a_half_thresholds_the_switch_is_not_pinned() {
             continue;
         };
         let vcc = s.conditions.supply_max().base();
-        let netlist = format!(
-            "* pinlow: `{name}` below 1.5 x VGS(th),max cold\n\
-             .options TEMP={T_REF_C} TNOM={T_REF_C}\n\
-             {gate}\
-             VCC vcc 0 DC {vcc:e}\n\
-             RL vcc d {rl:e}\n\
-             M1 d g 0 0 NWC W=1u L=1u\n\
-             {model}\
-             .control\n\
-             op\n\
-             print v(d) v(g)\n\
-             .endc\n\
-             .end\n",
-            name = s.name,
-            gate = gate_lines(s, w),
-            rl = vcc / id,
-            model = model_line(vto, kp),
+        let (vd, vg) = drain_op(
+            &format!("`{}` below 1.5 x VGS(th),max cold", s.name),
+            s,
+            w,
+            &format!("VCC vcc 0 DC {vcc:e}\nRL vcc d {:e}\n", vcc / id),
+            vto,
+            kp,
         );
-        let v = ngspice::run(&netlist, &["v(d)", "v(g)"]);
-        let (vd, vg) = (v["v(d)"], v["v(g)"]);
         let i_fit = lowest.id.map(|i| i.base()).unwrap_or(id);
         let i_sim = (vcc - vd) * id / vcc;
         rows.push((s, a, region(vg, vd, vto), vd, i_sim, i_fit, r));
