@@ -119,6 +119,7 @@ pub fn build(index: usize, stage: &Stage, a: &Analysis, remedy: Option<&Remedy>)
         series_symbol: kind.series.symbol,
         series_ohms: num(a.drive.series.base()),
         series_sized: a.drive.series_sized,
+        pull_down_keys: (kind.pull_down.key, kind.pull_down.sized_key),
         pull_down_ohms: a.drive.pull_down.map(|r| num(r.base())),
         pull_down_sized: a.drive.pull_down_sized,
         led_resistor_ohms: led.and_then(|o| o.value).map(|r| num(r.base())),

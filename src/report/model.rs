@@ -259,6 +259,8 @@ pub struct StageReport {
     pub series_ohms: f64,
     /// It was sized.
     pub series_sized: bool,
+    /// JSON keys of the pull-down and its sized flag (`pull_down_ohms`, `pull_down_sized`).
+    pub pull_down_keys: (&'static str, &'static str),
     /// The pull-down, if any.
     pub pull_down_ohms: Option<f64>,
     /// It was sized.
@@ -341,8 +343,8 @@ impl Serialize for StageReport {
         m.serialize_entry("load_kind", self.load_kind)?;
         m.serialize_entry(self.series_keys.0, &self.series_ohms)?;
         m.serialize_entry(self.series_keys.1, &self.series_sized)?;
-        m.serialize_entry("pull_down_ohms", &self.pull_down_ohms)?;
-        m.serialize_entry("pull_down_sized", &self.pull_down_sized)?;
+        m.serialize_entry(self.pull_down_keys.0, &self.pull_down_ohms)?;
+        m.serialize_entry(self.pull_down_keys.1, &self.pull_down_sized)?;
         m.serialize_entry("led_resistor_ohms", &self.led_resistor_ohms)?;
         m.serialize_entry("led_resistor_sized", &self.led_resistor_sized)?;
         m.serialize_entry("conditions", &self.conditions)?;
