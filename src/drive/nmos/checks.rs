@@ -24,7 +24,6 @@ pub const GATE_DERATING: f64 = 0.8;
 /// of these stages: see tests/ngspice_nmos.rs. The same rule as a point's test current.)
 pub fn pinned_low(w: &NmosWorst) -> Finding {
     let vgs = w.vgs_min.base();
-    let rise = (w.vgs_min - w.vgs_eff).base();
     let specified = w.lowest_vgs <= w.vgs_min;
     let above_threshold = vgs >= THRESHOLD_MARGIN * w.th_max_cold.base();
     let mut status = if specified {
@@ -47,7 +46,7 @@ pub fn pinned_low(w: &NmosWorst) -> Finding {
         why(PinnedLow {
             status,
             vgs_min: vgs,
-            rise,
+            vgs_eff: w.vgs_eff.base(),
             point_vgs: w.point.vgs.base(),
             point_ohms: w.point.ohms.base(),
             qualifies: w.point_qualifies,
@@ -119,7 +118,7 @@ pub fn gate_voltage(part: &NmosPart, c: &Conditions) -> Finding {
 struct PinnedLow {
     status: Status,
     vgs_min: f64,
-    rise: f64,
+    vgs_eff: f64,
     point_vgs: f64,
     point_ohms: f64,
     qualifies: bool,
@@ -153,12 +152,13 @@ impl Explain for PinnedLow {
             None => String::new(),
         };
         // The drive the points are compared with: VGS,min, less the cold rise when there is one.
-        let drive = if self.rise > 0.0 {
+        let rise = self.vgs_min - self.vgs_eff;
+        let drive = if rise > 0.0 {
             format!(
                 "{} ({} once the threshold's {} rise in the cold is taken off)",
                 fe(self.vgs_min, "V"),
-                fe(self.vgs_min - self.rise, "V"),
-                fe(self.rise, "V")
+                fe(self.vgs_eff, "V"),
+                fe(rise, "V")
             )
         } else {
             fe(self.vgs_min, "V")
@@ -178,8 +178,8 @@ impl Explain for PinnedLow {
                 "the weakest gate drive {} reaches the lowest specified gate voltage {}, but not once the threshold's {} rise in the cold is taken off ({}): {figure}{tail}",
                 fe(self.vgs_min, "V"),
                 fe(self.lowest, "V"),
-                fe(self.rise, "V"),
-                fe(self.vgs_min - self.rise, "V")
+                fe(rise, "V"),
+                fe(self.vgs_eff, "V")
             ),
             Status::Marginal => format!(
                 "the weakest gate drive {drive} is below the lowest gate voltage {} the datasheet specifies RDS(on) at, though at least 1.5 x the cold maximum threshold {}: {figure}{tail}",

@@ -198,6 +198,11 @@ impl NmosPart {
 }
 
 impl NmosWorst {
+    /// The threshold's rise in the cold that VGS,eff takes off VGS,min (0 when Ta,min >= 25 C).
+    pub fn cold_rise(&self) -> Voltage {
+        self.vgs_min - self.vgs_eff
+    }
+
     /// Evaluate the part with these resistors at the load corner.
     pub fn of(
         part: &NmosPart,

@@ -57,7 +57,7 @@ pub fn remedies(
     if let Some(f) = short(PINNED_LOW) {
         // The gate voltage that brings VGS,eff (the drive less the cold threshold rise) to the
         // lowest specified point.
-        let rise = (w.vgs_min - w.vgs_eff).base();
+        let rise = w.cold_rise().base();
         let target = w.lowest_vgs.base() + rise;
         let weakest = c.logic_high_min.base();
         // A divider that takes the drive below the lowest specified point while the pin alone
