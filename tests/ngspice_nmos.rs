@@ -135,6 +135,17 @@ fn part(s: &Stage) -> &NmosPart {
         .expect("an nmos part")
 }
 
+/// A stage whose VGS,min reaches the lowest RDS(on) point while VGS,eff does not: the figure
+/// is not guaranteed, and pinned-low is marginal and says so (docs/model.md, readings 1).
+fn assert_gap_is_marginal(s: &Stage, status: Status, sentence: &str) {
+    assert_eq!(status, Status::Marginal, "{}: {sentence}", s.name);
+    assert!(
+        sentence.contains("not guaranteed"),
+        "{}: point above VGS,eff, but pinned-low says: {sentence}",
+        s.name
+    );
+}
+
 fn pinned_low(a: &Analysis) -> (Status, String) {
     let f = a.finding(PINNED_LOW).expect("pinned-low runs");
     (f.status, f.why.sentence())
@@ -464,12 +475,7 @@ fn spec_point_model_bounds_the_on_voltage() {
             // No point at or below VGS,eff: the figure is not guaranteed at this drive, and the
             // engine does not pass the stage (at most marginal, by the 1.5 x threshold rule).
             flagged += 1;
-            assert_ne!(status, Status::Pass, "{}: {sentence}", s.name);
-            assert!(
-                sentence.contains("not guaranteed"),
-                "{}: point above VGS,eff, but pinned-low says: {sentence}",
-                s.name
-            );
+            assert_gap_is_marginal(s, status, &sentence);
             if ratio > 1.0 + ON_VOLTAGE_TOLERANCE {
                 exceeded += 1;
             }
@@ -620,12 +626,7 @@ fn below_one_and_a_half_thresholds_the_switch_is_not_pinned() {
             // Reaches the lowest point at VGS,min but not at VGS,eff (the drive less the cold
             // threshold rise): the figure is not guaranteed, and the engine does not pass it.
             pass_flagged += 1;
-            assert_eq!(status, Status::Marginal, "{}: {sentence}", s.name);
-            assert!(
-                sentence.contains("not guaranteed"),
-                "{}: {sentence}",
-                s.name
-            );
+            assert_gap_is_marginal(s, status, &sentence);
             if *reg != Region::Ohmic {
                 pass_sat += 1;
             }
