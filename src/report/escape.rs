@@ -116,58 +116,60 @@ fn markdown_inline_into(out: &mut String, text: &str, all_brackets: bool) {
         after_bracket = b == b']';
         let escape = if b.is_ascii() {
             match b {
-                _ if is_unsafe_char(char::from(b)) => Escape::Shown(char::from(b), 1),
-                b'<' => Escape::Text("&lt;"),
-                b'&' => Escape::Text("&amp;"),
-                b'\\' | b'`' | b'*' | b'_' | b'~' | b'!' | b'|' | b'#' => Escape::Backslash(b),
-                b'[' | b']' if all_brackets => Escape::Backslash(b),
-                b'(' | b'[' | b':' if was_after_bracket => Escape::Backslash(b),
+                _ if is_unsafe_char(char::from(b)) => Some(Escape::Shown(char::from(b), 1)),
+                b'<' => Some(Escape::Text("&lt;")),
+                b'&' => Some(Escape::Text("&amp;")),
+                b'\\' | b'`' | b'*' | b'_' | b'~' | b'!' | b'|' | b'#' => {
+                    Some(Escape::Backslash(b))
+                }
+                b'[' | b']' if all_brackets => Some(Escape::Backslash(b)),
+                b'(' | b'[' | b':' if was_after_bracket => Some(Escape::Backslash(b)),
                 b':' if bytes.get(here + 1..here + 3) == Some(b"//".as_slice()) => {
-                    Escape::Text("\\:")
+                    Some(Escape::Text("\\:"))
                 }
                 b'.' if here >= 3
                     && bytes
                         .get(here - 3..here)
                         .is_some_and(|w| w.eq_ignore_ascii_case(b"www")) =>
                 {
-                    Escape::Text("&#46;")
+                    Some(Escape::Text("&#46;"))
                 }
-                _ => Escape::None,
+                _ => None,
             }
         } else {
             match text.get(here..).and_then(|rest| rest.chars().next()) {
-                Some(c) if is_unsafe_char(c) => Escape::Shown(c, c.len_utf8()),
-                _ => Escape::None,
+                Some(c) if is_unsafe_char(c) => Some(Escape::Shown(c, c.len_utf8())),
+                _ => None,
             }
         };
-        let width = match escape {
-            Escape::None => {
-                here += 1;
-                continue;
-            }
-            Escape::Shown(_, w) => w,
-            _ => 1,
+        let Some(escape) = escape else {
+            // Nothing to write: the character continues the run.
+            here += 1;
+            continue;
         };
         out.push_str(text.get(copied..here).unwrap_or_default());
-        match escape {
-            Escape::Shown(c, _) => push_escaped(out, c),
-            Escape::Text(t) => out.push_str(t),
+        here += match escape {
+            Escape::Shown(c, width) => {
+                push_escaped(out, c);
+                width
+            }
+            Escape::Text(t) => {
+                out.push_str(t);
+                1
+            }
             Escape::Backslash(b) => {
                 out.push('\\');
                 out.push(char::from(b));
+                1
             }
-            Escape::None => {}
-        }
-        here += width;
+        };
         copied = here;
     }
     out.push_str(text.get(copied..).unwrap_or_default());
 }
 
-/// What [`markdown_inline_into`] writes for one character.
+/// What [`markdown_inline_into`] writes for one character that needs an escape.
 enum Escape {
-    /// Nothing: the character continues the run.
-    None,
     /// The character shown escaped (`\u{1b}`), with its width in bytes.
     Shown(char, usize),
     /// A replacement (an entity, a broken-up autolink).
