@@ -17,9 +17,9 @@ use pinlow::board::parse_board;
 use pinlow::check::{worst, Status};
 use pinlow::drive::PINNED_LOW;
 use pinlow::parts::Library;
-use pinlow::pipeline::{audit, picture};
+use pinlow::pipeline::{build, picture};
 use pinlow::quantity::Base;
-use pinlow::report::{render, Format};
+use pinlow::report::{render, Format, Report};
 use pinlow::stage::Stage;
 
 fn library() -> &'static Library {
@@ -38,19 +38,21 @@ fuzz_target!(|data: &[u8]| {
             return;
         }
     };
-    for stage in &board.stages {
+    let mut reports = Vec::with_capacity(board.stages.len());
+    for (i, stage) in board.stages.iter().enumerate() {
         let a = analyse(stage);
         sane(stage, &a);
-        if let Some(remedy) = compose(stage, &a) {
-            if let Some(after) = remedy.after {
-                assert!(
-                    after.analysis.verdict <= a.verdict,
-                    "the remedy leaves stage `{}` worse",
-                    stage.name
-                );
-                sane(&after.stage, &after.analysis);
-            }
+        let remedy = compose(stage, &a);
+        if let Some(after) = remedy.as_ref().and_then(|r| r.after.as_ref()) {
+            assert!(
+                after.analysis.verdict <= a.verdict,
+                "the remedy leaves stage `{}` worse",
+                stage.name
+            );
+            sane(&after.stage, &after.analysis);
         }
+        // The report value from this one analysis, as the pipeline builds it.
+        reports.push(build(i + 1, stage, &a, remedy.as_ref()));
         // The picture is the fourth renderer (`pinlow plot`): a stage may have none (an error
         // with a reason), but a picture must draw as well-formed SVG.
         match picture(stage, &a) {
@@ -65,7 +67,10 @@ fuzz_target!(|data: &[u8]| {
             Err(e) => assert!(!e.is_empty()),
         }
     }
-    let report = audit(board.name.clone(), &board.stages);
+    let report = Report {
+        board: board.name.clone(),
+        stages: reports,
+    };
     for (format, color) in [
         (Format::Table, false),
         (Format::Table, true),
@@ -118,7 +123,11 @@ fn sane(stage: &Stage, a: &Analysis) {
     if let Some(t) = d.junction_max {
         assert!(t.base().is_finite(), "Tj {t:?}");
     }
-    assert_eq!(a.verdict, worst(&a.findings), "verdict is not the worst check");
+    assert_eq!(
+        a.verdict,
+        worst(&a.findings),
+        "verdict is not the worst check"
+    );
     if let Some(n) = pinlow::drive::npn::detail(d) {
         let od = n.worst.overdrive;
         assert!(od.is_none_or(|k| !k.is_nan()), "overdrive NaN");

@@ -8,9 +8,9 @@ use pinlow::analysis::{analyse, compose};
 use pinlow::board::parse_board;
 use pinlow::check::worst;
 use pinlow::parts::{read_part, Library, PartSource};
-use pinlow::pipeline::audit;
+use pinlow::pipeline::build;
 use pinlow::quantity::Base;
-use pinlow::report::{render, Format};
+use pinlow::report::{render, Format, Report};
 
 fuzz_target!(|data: &[u8]| {
     let Ok(text) = std::str::from_utf8(data) else {
@@ -24,7 +24,12 @@ fuzz_target!(|data: &[u8]| {
         }
     };
     let id = serde_json::to_string(&part.info().id).expect("a string serializes");
-    let _ = (part.show(), part.summary(), part.to_json(), part.assumptions());
+    let _ = (
+        part.show(),
+        part.summary(),
+        part.to_json(),
+        part.assumptions(),
+    );
     let mut lib = Library::default();
     lib.insert(part);
     let board = format!(
@@ -46,7 +51,8 @@ fuzz_target!(|data: &[u8]| {
             return;
         }
     };
-    for stage in &board.stages {
+    let mut reports = Vec::with_capacity(board.stages.len());
+    for (i, stage) in board.stages.iter().enumerate() {
         let a = analyse(stage);
         assert_eq!(a.verdict, worst(&a.findings));
         for (name, v) in [
@@ -55,13 +61,25 @@ fuzz_target!(|data: &[u8]| {
             ("on-voltage", a.drive.on_voltage_max.base()),
             ("pin current", a.drive.pin_current_max.base()),
         ] {
-            assert!(v.is_finite() && v >= 0.0, "stage {}: {name} {v}", stage.name);
+            assert!(
+                v.is_finite() && v >= 0.0,
+                "stage {}: {name} {v}",
+                stage.name
+            );
         }
-        if let Some(after) = compose(stage, &a).and_then(|r| r.after) {
-            assert!(after.analysis.verdict <= a.verdict, "the remedy leaves it worse");
+        let remedy = compose(stage, &a);
+        if let Some(after) = remedy.as_ref().and_then(|r| r.after.as_ref()) {
+            assert!(
+                after.analysis.verdict <= a.verdict,
+                "the remedy leaves it worse"
+            );
         }
+        reports.push(build(i + 1, stage, &a, remedy.as_ref()));
     }
-    let report = audit(board.name.clone(), &board.stages);
+    let report = Report {
+        board: board.name.clone(),
+        stages: reports,
+    };
     let json = render(&report, Format::Json, false);
     let _: serde_json::Value = serde_json::from_str(&json).expect("the JSON report parses back");
     assert!(!render(&report, Format::Table, false).is_empty());
